@@ -1,0 +1,19 @@
+//! lagfold: how often does a measured horizon-IC peak land on the true optimal
+//! holding horizon, and what does a wrong choice cost?
+//!
+//! The data's way: [`scenario`] → [`decay`] and [`model`] → [`truth`] →
+//! [`generate`] → [`measure`] → [`study`] → [`report`]. The command line lives
+//! in the binary and in [`cli`].
+
+// pub mod cli;
+pub mod decay;
+pub mod error;
+pub mod generate;
+pub mod measure;
+pub mod model;
+// pub mod report;
+pub mod rng;
+pub mod scenario;
+pub mod study;
+pub mod stats;
+pub mod truth;

@@ -1,0 +1,245 @@
+//! Stage 3: the estimators (MODEL.md §3). Takes any [`Panel`], simulated or
+//! real; knows nothing of simulation.
+//!
+//! For `T` dates (0-based `t`), lag `k` and horizon `n`:
+//! - `IC_k(t)` = Pearson correlation across assets of forecast row `t` and
+//!   return row `t + k − 1`, for the `T − k` dates with `t + k ≤ T − 1`;
+//! - `H_n(t)` = correlation of forecast row `t` with the sum of return rows
+//!   `t .. t + n − 1`, for the `T − n` dates with `t + n ≤ T − 1`;
+//! - rank IC: the same on average ranks (Spearman), lags only, when asked;
+//! - means over dates with overlap-aware standard errors ([`hac`]).
+
+mod banded;
+pub mod fit;
+pub mod hac;
+mod panel;
+pub mod rank;
+pub mod rules;
+
+pub use panel::Panel;
+
+use banded::banded_products;
+
+/// Per-date series for each lag (or horizon), one row of `dates` per lag.
+#[derive(Debug, Clone, Default)]
+pub struct PerDate {
+    width: usize,
+    values: Vec<f64>,
+    counts: Vec<usize>,
+}
+
+impl PerDate {
+    fn reset(&mut self, lags: usize, width: usize) {
+        self.width = width;
+        self.values.clear();
+        self.values.resize(lags * width, f64::NAN);
+        self.counts.clear();
+        self.counts.resize(lags, 0);
+    }
+
+    /// Number of lags (or horizons).
+    pub fn len(&self) -> usize {
+        self.counts.len()
+    }
+
+    /// Whether there are none.
+    pub fn is_empty(&self) -> bool {
+        self.counts.is_empty()
+    }
+
+    /// The per-date values at lag (or horizon) `k` (1-based), dates in order.
+    pub fn series(&self, k: usize) -> &[f64] {
+        let row = &self.values[(k - 1) * self.width..k * self.width];
+        &row[..self.counts[k - 1]]
+    }
+
+    /// Mean over dates at every lag (index 0 = lag 1).
+    pub fn means(&self) -> Vec<f64> {
+        (1..=self.len()).map(|k| self.mean(k)).collect()
+    }
+
+    /// Mean over dates at lag `k` (1-based).
+    pub fn mean(&self, k: usize) -> f64 {
+        let s = self.series(k);
+        s.iter().sum::<f64>() / s.len() as f64
+    }
+
+    /// Means with overlap-aware standard errors ([`hac::mean_and_se`] with
+    /// [`hac::hac_lags`]); `overlap` is true for horizon ICs (lag count from
+    /// the horizon) and false for lagged ICs (lag count as for horizon 1).
+    pub fn means_and_se(&self, overlap: bool) -> (Vec<f64>, Vec<Option<f64>>) {
+        (1..=self.len())
+            .map(|k| {
+                let s = self.series(k);
+                hac::mean_and_se(s, hac::hac_lags(s.len(), if overlap { k } else { 1 }))
+            })
+            .unzip()
+    }
+}
+
+/// Per-date lagged, horizon and (optionally) rank ICs of one panel.
+///
+/// Owns its scratch buffers, so repeated [`Measurement::update`] calls on
+/// panels of the same size do not allocate.
+#[derive(Debug, Clone, Default)]
+pub struct Measurement {
+    horizons: usize,
+    with_rank: bool,
+    /// Lagged Pearson ICs.
+    pub lagged: PerDate,
+    /// Horizon ICs.
+    pub horizon: PerDate,
+    /// Lagged rank ICs (empty unless asked for).
+    pub rank_lagged: PerDate,
+    fdm: Vec<f64>,
+    rdm: Vec<f64>,
+    cross: Vec<f64>,
+    gram: Vec<f64>,
+    tmp: Vec<f64>,
+    order: Vec<usize>,
+}
+
+/// Demeans each row of `src` (rows of `n`) into `dst`; returns nothing.
+fn demean_rows(src: &[f64], n: usize, dst: &mut Vec<f64>) {
+    dst.clear();
+    dst.extend_from_slice(src);
+    for row in dst.chunks_exact_mut(n) {
+        let mean = row.iter().sum::<f64>() / n as f64;
+        row.iter_mut().for_each(|x| *x -= mean);
+    }
+}
+
+impl Measurement {
+    /// Measures up to lag and horizon `horizons`; rank ICs when `with_rank`.
+    pub fn new(horizons: usize, with_rank: bool) -> Self {
+        Self { horizons, with_rank, ..Self::default() }
+    }
+
+    /// Longest lag and horizon measured.
+    pub fn horizons(&self) -> usize {
+        self.horizons
+    }
+
+    /// Measures `panel` (needs `panel.dates ≥ horizons + 2`). Dates on which a
+    /// cross-section has no variance give no IC and are left out of the means.
+    pub fn update(&mut self, panel: &Panel) {
+        let (n, t, l) = (panel.assets, panel.dates, self.horizons);
+        assert!(t >= l + 2, "panel has {t} dates, needs at least {}", l + 2);
+        demean_rows(&panel.forecasts, n, &mut self.fdm);
+        demean_rows(&panel.returns, n, &mut self.rdm);
+        let (fdm, rdm) = (std::mem::take(&mut self.fdm), std::mem::take(&mut self.rdm));
+        self.pearson_and_horizon(&fdm, &rdm, n, t);
+        if self.with_rank {
+            self.rank(panel, n, t);
+        }
+        self.fdm = fdm;
+        self.rdm = rdm;
+    }
+
+    fn pearson_and_horizon(&mut self, fdm: &[f64], rdm: &[f64], n: usize, t: usize) {
+        let l = self.horizons;
+        let rows_r = t - 1;
+        banded_products(fdm, t, rdm, rows_r, n, l, &mut self.tmp, &mut self.cross);
+        banded_products(rdm, rows_r, rdm, rows_r, n, l, &mut self.tmp, &mut self.gram);
+        self.lagged.reset(l, t);
+        self.horizon.reset(l, t);
+        let (cross, gram) = (&self.cross, &self.gram);
+        for date in 0..t - 1 {
+            let f_ss: f64 = fdm[date * n..(date + 1) * n].iter().map(|x| x * x).sum();
+            let (mut cov, mut var) = (0.0, 0.0);
+            for k in 1..=l.min(t - 1 - date) {
+                let r = date + k - 1; // return row of lag k
+                let c = cross[date * l + k - 1];
+                let r_ss = gram[r * l];
+                cov += c;
+                // ‖Σ_{j<k} r_j‖² grows by ‖r‖² + 2·Σ_{j<k−1} ⟨r_{date+j}, r⟩
+                var += r_ss + 2.0 * (0..k - 1).map(|j| gram[(date + j) * l + (k - 1 - j)]).sum::<f64>();
+                push(&mut self.lagged, k, c / (f_ss * r_ss).sqrt());
+                push(&mut self.horizon, k, cov / (f_ss * var).sqrt());
+            }
+        }
+    }
+
+    fn rank(&mut self, panel: &Panel, n: usize, t: usize) {
+        let l = self.horizons;
+        let centre = (n as f64 + 1.0) / 2.0;
+        let ranked = |src: &[f64], dst: &mut Vec<f64>, order: &mut Vec<usize>| {
+            dst.clear();
+            dst.extend_from_slice(src);
+            for row in dst.chunks_exact_mut(n) {
+                rank::rank_in_place(row, order);
+                row.iter_mut().for_each(|x| *x -= centre);
+            }
+        };
+        let mut order = std::mem::take(&mut self.order);
+        ranked(&panel.forecasts, &mut self.fdm, &mut order);
+        ranked(&panel.returns, &mut self.rdm, &mut order);
+        self.order = order;
+        banded_products(&self.fdm, t, &self.rdm, t - 1, n, l, &mut self.tmp, &mut self.cross);
+        self.rank_lagged.reset(l, t);
+        for date in 0..t - 1 {
+            let f_ss: f64 = self.fdm[date * n..(date + 1) * n].iter().map(|x| x * x).sum();
+            for k in 1..=l.min(t - 1 - date) {
+                let r = &self.rdm[(date + k - 1) * n..(date + k) * n];
+                let r_ss: f64 = r.iter().map(|x| x * x).sum();
+                push(&mut self.rank_lagged, k, self.cross[date * l + k - 1] / (f_ss * r_ss).sqrt());
+            }
+        }
+    }
+}
+
+fn push(p: &mut PerDate, k: usize, v: f64) {
+    if v.is_finite() {
+        let c = &mut p.counts[k - 1];
+        p.values[(k - 1) * p.width + *c] = v;
+        *c += 1;
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn pearson(x: &[f64], y: &[f64]) -> f64 {
+        let n = x.len() as f64;
+        let (mx, my) = (x.iter().sum::<f64>() / n, y.iter().sum::<f64>() / n);
+        let sxy: f64 = x.iter().zip(y).map(|(a, b)| (a - mx) * (b - my)).sum();
+        let sxx: f64 = x.iter().map(|a| (a - mx).powi(2)).sum();
+        let syy: f64 = y.iter().map(|b| (b - my).powi(2)).sum();
+        sxy / (sxx * syy).sqrt()
+    }
+
+    fn toy_panel() -> Panel {
+        let (n, t) = (12, 9);
+        let mut p = Panel::zeros(n, t);
+        for (i, x) in p.forecasts.iter_mut().enumerate() {
+            *x = ((i * 7919) % 23) as f64 / 7.0 - 1.0;
+        }
+        for (i, x) in p.returns.iter_mut().enumerate() {
+            *x = ((i * 104_729) % 31) as f64 / 13.0 - 1.1 + 0.2 * p.forecasts[i];
+        }
+        p
+    }
+
+    #[test]
+    fn per_date_ics_equal_direct_correlations() {
+        let p = toy_panel();
+        let mut m = Measurement::new(3, true);
+        m.update(&p);
+        for k in 1..=3 {
+            assert_eq!(m.lagged.series(k).len(), p.dates - k);
+            for date in 0..p.dates - k {
+                let f = p.forecast_row(date);
+                let r = p.return_row(date + k - 1);
+                assert!((m.lagged.series(k)[date] - pearson(f, r)).abs() < 1e-13);
+                let cum: Vec<f64> = (0..p.assets).map(|i| (0..k).map(|j| p.return_row(date + j)[i]).sum()).collect();
+                assert!((m.horizon.series(k)[date] - pearson(f, &cum)).abs() < 1e-13);
+                let mut fr = f.to_vec();
+                let mut rr = r.to_vec();
+                rank::rank_in_place(&mut fr, &mut Vec::new());
+                rank::rank_in_place(&mut rr, &mut Vec::new());
+                assert!((m.rank_lagged.series(k)[date] - pearson(&fr, &rr)).abs() < 1e-13);
+            }
+        }
+    }
+}

@@ -1,0 +1,71 @@
+//! Rules that pick the estimated optimal horizon `n̂` from one measurement.
+
+use super::fit::{self, Family};
+use crate::truth::argmax1;
+use serde::Serialize;
+
+/// The rules compared in the study.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Rule {
+    /// Peak of the measured horizon-IC curve.
+    Peak,
+    /// Peak of `Σ_{k≤n} IC_k / sqrt(n)` built from measured lagged ICs.
+    Formula,
+    /// Optimum implied by a decay curve fitted to measured lagged ICs.
+    Fitted,
+}
+
+impl Rule {
+    /// Every rule, in report order.
+    pub const ALL: [Rule; 3] = [Rule::Peak, Rule::Formula, Rule::Fitted];
+
+    /// The rule's name in outputs.
+    pub fn name(self) -> &'static str {
+        match self {
+            Rule::Peak => "peak",
+            Rule::Formula => "formula",
+            Rule::Fitted => "fitted",
+        }
+    }
+
+    /// One line saying what the rule does.
+    pub fn describe(self) -> &'static str {
+        match self {
+            Rule::Peak => "peak of the measured horizon IC",
+            Rule::Formula => "peak of sum of measured lagged ICs / sqrt(n)",
+            Rule::Fitted => "optimum of a decay curve fitted to measured lagged ICs (family by AIC)",
+        }
+    }
+}
+
+/// `Σ_{k≤n} x_k / sqrt(n)` for `n = 1..=len` (Qian, Hua and Sorensen, 2007).
+pub fn formula_curve(lagged: &[f64]) -> Vec<f64> {
+    let mut s = 0.0;
+    lagged
+        .iter()
+        .enumerate()
+        .map(|(i, x)| {
+            s += x;
+            s / ((i + 1) as f64).sqrt()
+        })
+        .collect()
+}
+
+/// The choices of every rule (1-based horizons) and the fitted family.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Choices {
+    /// `n̂` per rule, in [`Rule::ALL`] order.
+    pub horizon: [usize; 3],
+    /// The family the fitted rule chose.
+    pub family: Family,
+}
+
+/// Applies all three rules to mean lagged ICs (with standard errors) and mean horizon ICs.
+pub fn choose(lagged: &[f64], lagged_se: &[Option<f64>], horizon: &[f64]) -> Choices {
+    let f = fit::best_fit(lagged, lagged_se);
+    Choices {
+        horizon: [argmax1(horizon), argmax1(&formula_curve(lagged)), argmax1(&formula_curve(&f.curve))],
+        family: f.family,
+    }
+}

@@ -1,0 +1,230 @@
+//! Stage 0: the scenario. Two layers: [`RawScenario`] only parses the TOML;
+//! [`Scenario`] is the validated form, the only one the engine sees.
+
+mod locate;
+pub mod presets;
+mod raw;
+
+pub use raw::{RawDecay, RawScenario, RawTails};
+
+use crate::decay::{DecayCurve, out_of_range};
+use crate::error::{InputError, ScenarioError};
+use serde::Serialize;
+
+/// Idiosyncratic noise law (validated).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "family", rename_all = "snake_case")]
+pub enum Tails {
+    /// Standard normal.
+    Normal,
+    /// Student-t with `dof > 2` degrees of freedom, scaled to unit variance.
+    StudentT {
+        /// Degrees of freedom ν.
+        dof: f64,
+    },
+}
+
+/// A validated scenario. Build it with [`Scenario::from_raw`] or [`load`].
+#[derive(Debug, Clone)]
+pub struct Scenario {
+    /// Name (output folder).
+    pub name: String,
+    /// One-line description.
+    pub description: String,
+    /// Breadth `N` (≥ 10).
+    pub assets: usize,
+    /// History `T` (> `horizons`).
+    pub history: usize,
+    /// Longest horizon `L` (≥ 1).
+    pub horizons: usize,
+    /// Periods per year (> 0).
+    pub periods_per_year: f64,
+    /// Residual volatility per period (> 0).
+    pub residual_vol: f64,
+    /// Forecast autocorrelation `ρ` in (−1, 1).
+    pub rho: f64,
+    /// IC volatility (sd of the common shock) in [0, 1).
+    pub ic_vol: f64,
+    /// Persistence `ψ` of the common shock in (−1, 1).
+    pub ic_vol_persistence: f64,
+    /// Idiosyncratic noise law.
+    pub tails: Tails,
+    /// Paths in the study (≥ 1).
+    pub paths: usize,
+    /// Master seed.
+    pub seed: u64,
+    /// Near-best tolerance, in [0, 1).
+    pub near_best_tolerance: f64,
+    /// Truncation lag `K` (IC zero beyond).
+    pub truncation: usize,
+    /// Whether the study also measures rank ICs.
+    pub rank_ic: bool,
+    /// The user's lagged-IC curve.
+    pub decay: DecayCurve,
+}
+
+/// Command-line overrides of the common knobs, applied before validation.
+#[derive(Debug, Clone, Default)]
+pub struct Overrides {
+    /// `--assets`.
+    pub assets: Option<usize>,
+    /// `--history`.
+    pub history: Option<usize>,
+    /// `--horizons`.
+    pub horizons: Option<usize>,
+    /// `--paths`.
+    pub paths: Option<usize>,
+    /// `--seed`.
+    pub seed: Option<u64>,
+}
+
+impl Overrides {
+    /// Writes the given overrides into a raw scenario.
+    pub fn apply(&self, raw: &mut RawScenario) {
+        if let Some(v) = self.assets {
+            raw.assets = v;
+        }
+        if let Some(v) = self.history {
+            raw.history = v;
+        }
+        if let Some(v) = self.horizons {
+            raw.horizons = v;
+        }
+        if let Some(v) = self.paths {
+            raw.paths = v;
+        }
+        if let Some(v) = self.seed {
+            raw.seed = v;
+        }
+    }
+}
+
+fn open_unit(key: &str, v: f64) -> Result<f64, ScenarioError> {
+    if v.is_finite() && v > -1.0 && v < 1.0 {
+        Ok(v)
+    } else {
+        Err(out_of_range(key, v, "inside (-1, 1)"))
+    }
+}
+
+fn positive(key: &str, v: f64) -> Result<f64, ScenarioError> {
+    if v.is_finite() && v > 0.0 {
+        Ok(v)
+    } else {
+        Err(out_of_range(key, v, "> 0"))
+    }
+}
+
+impl Scenario {
+    /// Validates a raw scenario.
+    ///
+    /// # Errors
+    /// The first field outside its range, with its key path and value.
+    pub fn from_raw(raw: &RawScenario, default_name: &str) -> Result<Self, ScenarioError> {
+        let name = raw.name.clone().unwrap_or_else(|| default_name.to_string());
+        if name.is_empty()
+            || !name.chars().all(|c| c.is_ascii_alphanumeric() || "-_.".contains(c))
+            || name.starts_with('.')
+        {
+            return Err(out_of_range("name", format!("{name:?}"), "letters, digits, '-', '_' or '.'"));
+        }
+        if raw.assets < 10 {
+            return Err(out_of_range("assets", raw.assets, "at least 10"));
+        }
+        if raw.horizons < 1 {
+            return Err(out_of_range("horizons", raw.horizons, "at least 1"));
+        }
+        if raw.history <= raw.horizons + 1 {
+            return Err(out_of_range(
+                "history",
+                raw.history,
+                &format!("at least horizons + 2 = {} (each horizon needs two dates)", raw.horizons + 2),
+            ));
+        }
+        let periods_per_year = positive("periods_per_year", raw.periods_per_year)?;
+        let residual_vol = positive("residual_vol", raw.residual_vol)?;
+        let rho = open_unit("forecast_autocorrelation", raw.forecast_autocorrelation)?;
+        if !(raw.ic_vol.is_finite() && (0.0..1.0).contains(&raw.ic_vol)) {
+            return Err(out_of_range("ic_vol", raw.ic_vol, "in [0, 1)"));
+        }
+        let ic_vol_persistence = open_unit("ic_vol_persistence", raw.ic_vol_persistence)?;
+        let tails = match raw.tails {
+            RawTails::Normal => Tails::Normal,
+            RawTails::StudentT { dof } => {
+                if !(dof.is_finite() && dof > 2.0) {
+                    return Err(out_of_range("tails.dof", dof, "> 2 (finite variance)"));
+                }
+                Tails::StudentT { dof }
+            }
+        };
+        if raw.paths < 1 {
+            return Err(out_of_range("paths", raw.paths, "at least 1"));
+        }
+        if !(raw.near_best_tolerance.is_finite() && (0.0..1.0).contains(&raw.near_best_tolerance)) {
+            return Err(out_of_range("near_best_tolerance", raw.near_best_tolerance, "in [0, 1)"));
+        }
+        let decay = match raw.decay {
+            RawDecay::Exponential { ic1, half_life } => DecayCurve::exponential(ic1, half_life),
+            RawDecay::Linear { ic1, zero_at } => DecayCurve::linear(ic1, zero_at),
+            RawDecay::Hump { peak, peak_lag, shape } => DecayCurve::hump(peak, peak_lag, shape),
+            RawDecay::Power { ic1, exponent } => DecayCurve::power(ic1, exponent),
+            RawDecay::Step { ic, length } => DecayCurve::step(ic, length),
+            RawDecay::Table { ref values } => DecayCurve::table(values.clone()),
+        }?;
+        let truncation = match raw.truncation {
+            Some(0) => return Err(out_of_range("truncation", 0, "at least 1")),
+            Some(k) if k > 20_000 => return Err(out_of_range("truncation", k, "at most 20000")),
+            Some(k) => k,
+            None => decay.natural_end().unwrap_or(4 * raw.horizons),
+        };
+        Ok(Self {
+            name,
+            description: raw.description.clone(),
+            assets: raw.assets,
+            history: raw.history,
+            horizons: raw.horizons,
+            periods_per_year,
+            residual_vol,
+            rho,
+            ic_vol: raw.ic_vol,
+            ic_vol_persistence,
+            tails,
+            paths: raw.paths,
+            seed: raw.seed,
+            near_best_tolerance: raw.near_best_tolerance,
+            truncation,
+            rank_ic: raw.rank_ic,
+            decay,
+        })
+    }
+}
+
+/// Parses a scenario text (syntax, unknown fields and types only).
+///
+/// # Errors
+/// [`InputError::Parse`] with the parser's line and column.
+pub fn parse(text: &str, origin: &str) -> Result<RawScenario, InputError> {
+    toml::from_str(text).map_err(|e| InputError::Parse {
+        origin: origin.to_string(),
+        message: e.to_string().trim_end().to_string(),
+    })
+}
+
+/// Parses, applies overrides and validates; a value error carries its line.
+///
+/// # Errors
+/// [`InputError::Parse`] or [`InputError::Invalid`].
+pub fn load(text: &str, origin: &str, default_name: &str, ov: &Overrides) -> Result<Scenario, InputError> {
+    let mut raw = parse(text, origin)?;
+    ov.apply(&mut raw);
+    Scenario::from_raw(&raw, default_name).map_err(|e| locate(e, text, origin))
+}
+
+/// Wraps a value error with the line of its key in `text`.
+pub fn locate(source: ScenarioError, text: &str, origin: &str) -> InputError {
+    let line = match &source {
+        ScenarioError::OutOfRange { key, .. } => locate::line_of(text, key),
+        _ => None,
+    };
+    InputError::Invalid { origin: origin.to_string(), line, source }
+}

@@ -1,0 +1,151 @@
+//! The scenario file as written: serde only parses, with `deny_unknown_fields`
+//! so that a misspelt key is an error with its line, not a silent default.
+
+use serde::{Deserialize, Serialize};
+
+/// A scenario file (TOML). Every field but `decay` has a default.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawScenario {
+    /// Scenario name, used for the output folder (default: the file name).
+    pub name: Option<String>,
+    /// One line saying what the scenario is.
+    #[serde(default)]
+    pub description: String,
+    /// Breadth `N`: assets in the cross-section (at least 10).
+    #[serde(default = "defaults::assets")]
+    pub assets: usize,
+    /// History `T`: dates in each simulated history.
+    #[serde(default = "defaults::history")]
+    pub history: usize,
+    /// Longest horizon `L` studied (must be below `history`).
+    #[serde(default = "defaults::horizons")]
+    pub horizons: usize,
+    /// Periods in a year (12 monthly, 52 weekly, 252 daily).
+    #[serde(default = "defaults::periods_per_year")]
+    pub periods_per_year: f64,
+    /// Cross-sectional residual volatility per period (0.06 = 6 %).
+    #[serde(default = "defaults::residual_vol")]
+    pub residual_vol: f64,
+    /// Forecast autocorrelation `ρ` per period, in (−1, 1).
+    #[serde(default)]
+    pub forecast_autocorrelation: f64,
+    /// Standard deviation of the common per-period IC shock, in [0, 1).
+    #[serde(default)]
+    pub ic_vol: f64,
+    /// AR(1) coefficient `ψ` of the IC shock over time, in (−1, 1).
+    #[serde(default)]
+    pub ic_vol_persistence: f64,
+    /// Idiosyncratic noise law.
+    #[serde(default)]
+    pub tails: RawTails,
+    /// Simulated histories in the study.
+    #[serde(default = "defaults::paths")]
+    pub paths: usize,
+    /// Master seed; each path's stream derives from `(seed, path index)`.
+    #[serde(default = "defaults::seed")]
+    pub seed: u64,
+    /// Horizons within this share of the best horizon IC count as near-best.
+    #[serde(default = "defaults::near_best_tolerance")]
+    pub near_best_tolerance: f64,
+    /// Lag `K` beyond which the IC is zero (default: the family's own end, else `4L`).
+    pub truncation: Option<usize>,
+    /// Also measure rank (Spearman) lagged ICs in the study (slower).
+    #[serde(default)]
+    pub rank_ic: bool,
+    /// The lagged-IC decay curve (expected per-date IC).
+    pub decay: RawDecay,
+}
+
+/// The decay family and its parameters (`family = "..."`).
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(tag = "family", rename_all = "snake_case", deny_unknown_fields)]
+pub enum RawDecay {
+    /// `IC_k = ic1 · 2^{−(k−1)/half_life}`.
+    Exponential {
+        /// IC at lag 1.
+        ic1: f64,
+        /// Half-life in periods.
+        half_life: f64,
+    },
+    /// `IC_k = ic1 · (zero_at − k)/(zero_at − 1)`, zero from `zero_at` on.
+    Linear {
+        /// IC at lag 1.
+        ic1: f64,
+        /// Lag at which the IC reaches zero.
+        zero_at: f64,
+    },
+    /// `IC_k = peak · (k/peak_lag)^shape · exp(shape·(1 − k/peak_lag))`.
+    Hump {
+        /// Highest IC.
+        peak: f64,
+        /// Lag of the highest IC.
+        peak_lag: f64,
+        /// Shape (default 2).
+        #[serde(default = "defaults::hump_shape")]
+        shape: f64,
+    },
+    /// `IC_k = ic1 · k^{−exponent}`.
+    Power {
+        /// IC at lag 1.
+        ic1: f64,
+        /// Exponent.
+        exponent: f64,
+    },
+    /// `IC_k = ic` for `k ≤ length`, zero beyond.
+    Step {
+        /// IC on each lag of the step.
+        ic: f64,
+        /// Number of lags.
+        length: usize,
+    },
+    /// Explicit values, lag 1 first.
+    Table {
+        /// The values.
+        values: Vec<f64>,
+    },
+}
+
+/// Idiosyncratic noise (`family = "normal"` or `"student_t"` with `dof`).
+#[derive(Debug, Clone, Default, Deserialize, Serialize)]
+#[serde(tag = "family", rename_all = "snake_case", deny_unknown_fields)]
+pub enum RawTails {
+    /// Standard normal.
+    #[default]
+    Normal,
+    /// Student-t with `dof > 2`, scaled to unit variance.
+    StudentT {
+        /// Degrees of freedom ν.
+        dof: f64,
+    },
+}
+
+mod defaults {
+    pub fn assets() -> usize {
+        1000
+    }
+    pub fn history() -> usize {
+        120
+    }
+    pub fn horizons() -> usize {
+        24
+    }
+    pub fn periods_per_year() -> f64 {
+        12.0
+    }
+    pub fn residual_vol() -> f64 {
+        0.06
+    }
+    pub fn paths() -> usize {
+        2000
+    }
+    pub fn seed() -> u64 {
+        1
+    }
+    pub fn near_best_tolerance() -> f64 {
+        0.01
+    }
+    pub fn hump_shape() -> f64 {
+        2.0
+    }
+}

@@ -1,0 +1,92 @@
+//! Small accumulators and summaries shared by the study and the reports.
+
+use serde::Serialize;
+
+/// Running mean and variance (Welford, 1962), merged in a fixed order.
+#[derive(Debug, Clone, Copy, Default)]
+pub struct Moments {
+    n: u64,
+    mean: f64,
+    m2: f64,
+}
+
+impl Moments {
+    /// Adds one observation.
+    pub fn push(&mut self, x: f64) {
+        self.n += 1;
+        let d = x - self.mean;
+        self.mean += d / self.n as f64;
+        self.m2 += d * (x - self.mean);
+    }
+
+    /// Mean (NaN when empty).
+    pub fn mean(&self) -> f64 {
+        if self.n == 0 { f64::NAN } else { self.mean }
+    }
+
+    /// Sample standard deviation, `None` with fewer than two observations.
+    pub fn sd(&self) -> Option<f64> {
+        (self.n > 1).then(|| (self.m2 / (self.n - 1) as f64).sqrt())
+    }
+
+    /// Monte Carlo standard error of the mean, `sd/sqrt(n)`.
+    pub fn se(&self) -> Option<f64> {
+        self.sd().map(|s| s / (self.n as f64).sqrt())
+    }
+}
+
+/// A proportion with its binomial standard error `sqrt(p(1−p)/n)`.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct Proportion {
+    /// Share of paths.
+    pub rate: f64,
+    /// Monte Carlo standard error.
+    pub se: f64,
+}
+
+impl Proportion {
+    /// `hits` out of `n`.
+    pub fn new(hits: u64, n: u64) -> Self {
+        let p = hits as f64 / n as f64;
+        Self { rate: p, se: (p * (1.0 - p) / n as f64).sqrt() }
+    }
+}
+
+/// Quantile `q` of sorted data, linear interpolation between order statistics
+/// (Hyndman and Fan, 1996, type 7; numpy's default).
+pub fn quantile_sorted(sorted: &[f64], q: f64) -> f64 {
+    if sorted.is_empty() {
+        return f64::NAN;
+    }
+    let h = (sorted.len() - 1) as f64 * q;
+    let (lo, frac) = (h.floor() as usize, h - h.floor());
+    let hi = (lo + 1).min(sorted.len() - 1);
+    sorted[lo] + frac * (sorted[hi] - sorted[lo])
+}
+
+/// Quantile band levels reported for curves.
+pub const BAND_LEVELS: [f64; 5] = [0.05, 0.25, 0.5, 0.75, 0.95];
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn quantiles_match_numpy_type_7() {
+        // numpy.quantile([1, 2, 4, 8], [0.25, 0.5, 0.9]) = [1.75, 3.0, 6.8]
+        let s = [1.0, 2.0, 4.0, 8.0];
+        assert_eq!(quantile_sorted(&s, 0.25), 1.75);
+        assert_eq!(quantile_sorted(&s, 0.5), 3.0);
+        assert!((quantile_sorted(&s, 0.9) - 6.8).abs() < 1e-12);
+    }
+
+    #[test]
+    fn moments_match_two_pass_formulas() {
+        let xs = [0.5, 1.5, -2.0, 4.0, 3.25];
+        let mut m = Moments::default();
+        xs.iter().for_each(|&x| m.push(x));
+        let mean = xs.iter().sum::<f64>() / 5.0;
+        let var = xs.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / 4.0;
+        assert!((m.mean() - mean).abs() < 1e-15 && (m.sd().unwrap() - var.sqrt()).abs() < 1e-14);
+    }
+}
