@@ -8,7 +8,8 @@
 use crate::error::ScenarioError;
 
 /// One decay-curve family with its parameters (validated).
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+#[serde(tag = "family", rename_all = "snake_case")]
 pub enum DecayShape {
     /// `IC_k = ic1 · 2^{−(k−1)/h}`.
     Exponential {
@@ -55,7 +56,8 @@ pub enum DecayShape {
 }
 
 /// A validated decay curve. Build it with one of the constructors.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+#[serde(transparent)]
 pub struct DecayCurve {
     shape: DecayShape,
 }

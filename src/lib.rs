@@ -5,13 +5,13 @@
 //! [`generate`] → [`measure`] → [`study`] → [`report`]. The command line lives
 //! in the binary and in [`cli`].
 
-// pub mod cli;
+pub mod cli;
 pub mod decay;
 pub mod error;
 pub mod generate;
 pub mod measure;
 pub mod model;
-// pub mod report;
+pub mod report;
 pub mod rng;
 pub mod scenario;
 pub mod study;

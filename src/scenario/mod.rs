@@ -25,7 +25,7 @@ pub enum Tails {
 }
 
 /// A validated scenario. Build it with [`Scenario::from_raw`] or [`load`].
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, Serialize)]
 pub struct Scenario {
     /// Name (output folder).
     pub name: String,
@@ -42,6 +42,7 @@ pub struct Scenario {
     /// Residual volatility per period (> 0).
     pub residual_vol: f64,
     /// Forecast autocorrelation `ρ` in (−1, 1).
+    #[serde(rename = "forecast_autocorrelation")]
     pub rho: f64,
     /// IC volatility (sd of the common shock) in [0, 1).
     pub ic_vol: f64,

@@ -1,0 +1,85 @@
+//! The command line, apart from the engine: parse options, read the scenario,
+//! run, write, report. Exit codes: 0 ok, 1 failure, 2 bad input.
+
+mod presets_cmd;
+mod progress;
+mod run;
+
+use clap::{Parser, Subcommand};
+use std::io::Write;
+
+/// lagfold: how often does the measured horizon-IC peak land on the true best holding horizon?
+#[derive(Debug, Parser)]
+#[command(name = "lagfold", version, about, long_about = None)]
+pub struct Cli {
+    /// What to do.
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+/// The subcommands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Run the study on a scenario file (or a built-in preset name).
+    Run(run::RunArgs),
+    /// Run the study on the built-in default scenario.
+    Demo(run::StudyArgs),
+    /// List the built-in presets, or print one as TOML.
+    Presets(presets_cmd::PresetsArgs),
+}
+
+/// A command's failure with its exit code.
+#[derive(Debug)]
+pub struct Failure {
+    /// 1 for failures, 2 for bad input.
+    pub code: i32,
+    /// What to tell the user.
+    pub message: String,
+}
+
+impl Failure {
+    /// Bad input (exit code 2).
+    pub fn input(e: impl std::fmt::Display) -> Self {
+        Self { code: 2, message: e.to_string() }
+    }
+
+    /// Anything else (exit code 1).
+    pub fn other(e: impl std::fmt::Display) -> Self {
+        Self { code: 1, message: e.to_string() }
+    }
+}
+
+/// Writes to stdout; a closed pipe (`lagfold … | head`) is not an error.
+pub(crate) fn print(text: &str) -> Result<(), Failure> {
+    let mut out = std::io::stdout().lock();
+    match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
+        Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => Err(Failure::other(e)),
+        _ => Ok(()),
+    }
+}
+
+/// Parses the arguments, runs the command and returns the exit code.
+pub fn main() -> i32 {
+    let cli = Cli::parse();
+    let result = match cli.command {
+        Command::Run(a) => run::run(&a),
+        Command::Demo(a) => run::demo(&a),
+        Command::Presets(a) => presets_cmd::run(&a),
+    };
+    match result {
+        Ok(()) => 0,
+        Err(f) => {
+            eprintln!("lagfold: {}", f.message);
+            f.code
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn clap_definition_is_consistent() {
+        use clap::CommandFactory;
+        super::Cli::command().debug_assert();
+    }
+}

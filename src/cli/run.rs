@@ -1,0 +1,101 @@
+//! `lagfold run <scenario>` and `lagfold demo`: read the scenario → set up the
+//! truth → run the study → write outputs → print the summary.
+
+use super::{Failure, print, progress};
+use crate::report::{self, Summary};
+use crate::scenario::{self, Overrides, Scenario, presets};
+use crate::study::{self, Setup};
+use std::path::{Path, PathBuf};
+
+/// Options shared by `run` and `demo`.
+#[derive(Debug, Clone, clap::Args)]
+pub struct StudyArgs {
+    /// Breadth N (assets per date).
+    #[arg(long)]
+    pub assets: Option<usize>,
+    /// History T (dates per simulated history).
+    #[arg(long)]
+    pub history: Option<usize>,
+    /// Longest horizon L studied.
+    #[arg(long)]
+    pub horizons: Option<usize>,
+    /// Simulated histories.
+    #[arg(long)]
+    pub paths: Option<usize>,
+    /// Master seed.
+    #[arg(long)]
+    pub seed: Option<u64>,
+    /// Worker threads (default: all cores); results do not depend on it.
+    #[arg(long, value_parser = clap::value_parser!(u16).range(1..=1024))]
+    pub threads: Option<u16>,
+    /// Output folder (default: lagfold-out/<scenario name>).
+    #[arg(long)]
+    pub out: Option<PathBuf>,
+    /// No progress bar and no summary on the terminal.
+    #[arg(long, short)]
+    pub quiet: bool,
+}
+
+/// Options of `run`.
+#[derive(Debug, clap::Args)]
+pub struct RunArgs {
+    /// Scenario file (TOML), or the name of a built-in preset.
+    pub scenario: PathBuf,
+    /// The common knobs.
+    #[command(flatten)]
+    pub study: StudyArgs,
+}
+
+impl StudyArgs {
+    fn overrides(&self) -> Overrides {
+        Overrides { assets: self.assets, history: self.history, horizons: self.horizons, paths: self.paths, seed: self.seed }
+    }
+}
+
+/// Reads a scenario from a file, or from a preset when no such file exists.
+fn read_scenario(path: &Path, ov: &Overrides) -> Result<Scenario, Failure> {
+    let name = path.to_string_lossy();
+    if !path.exists() && presets::ALL.iter().any(|(n, _)| *n == name) {
+        return scenario::load(presets::text(&name).map_err(Failure::input)?, &format!("preset {name}"), &name, ov).map_err(Failure::input);
+    }
+    let text = std::fs::read_to_string(path)
+        .map_err(|e| Failure::input(crate::error::InputError::Read { path: path.to_path_buf(), source: e }))?;
+    let stem = path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| "scenario".into());
+    scenario::load(&text, &path.display().to_string(), &stem, ov).map_err(Failure::input)
+}
+
+/// `lagfold run`.
+pub fn run(a: &RunArgs) -> Result<(), Failure> {
+    let scenario = read_scenario(&a.scenario, &a.study.overrides())?;
+    execute(scenario, &a.study, &a.scenario.display().to_string())
+}
+
+/// `lagfold demo`.
+pub fn demo(a: &StudyArgs) -> Result<(), Failure> {
+    let origin = format!("preset {}", presets::DEFAULT);
+    let text = presets::text(presets::DEFAULT).map_err(Failure::other)?;
+    let scenario = scenario::load(text, &origin, presets::DEFAULT, &a.overrides()).map_err(Failure::input)?;
+    execute(scenario, a, &origin)
+}
+
+fn execute(scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
+    let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(&scenario.name));
+    let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
+    let threads = a.threads.map_or_else(|| std::thread::available_parallelism().map_or(1, |n| n.get()), usize::from);
+    let bar = progress::bar(setup.scenario.paths, a.quiet);
+    let result = study::run(&setup, threads, &|done| bar.set_position(done as u64));
+    bar.finish_and_clear();
+    let summary = Summary::new(&setup, &result);
+    let files = [
+        ("summary.json", report::summary_json(&summary)),
+        ("curves.csv", report::curves_csv(&setup, &result)),
+        ("choices.csv", report::choices_csv(&setup, &result)),
+    ];
+    report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
+    if !a.quiet {
+        let mut text = report::terminal_summary(&setup, &result);
+        text.push_str(&format!("\nOutputs: {} (summary.json, curves.csv, choices.csv)\n", out_dir.display()));
+        print(&text)?;
+    }
+    Ok(())
+}

@@ -1,0 +1,35 @@
+//! Stage 5: what users read. Exporters are pure functions from results to
+//! bytes; [`write_atomically`] puts them in place only once all are written.
+
+mod csv_tables;
+mod summary;
+mod terminal;
+
+pub use csv_tables::{choices_csv, curves_csv};
+pub use summary::{CAUTION, Summary, summary_json};
+pub use terminal::{period_word, terminal_summary};
+
+use std::io::Write;
+use std::path::Path;
+
+/// Writes every `(file name, bytes)` into `dir` under temporary names, then
+/// renames them into place, so a failure never leaves half-written outputs
+/// over what the user already had.
+///
+/// # Errors
+/// Any I/O error, naming the file.
+pub fn write_atomically(dir: &Path, files: &[(&str, Vec<u8>)]) -> std::io::Result<()> {
+    let named = |e: std::io::Error, p: &Path| std::io::Error::new(e.kind(), format!("{}: {e}", p.display()));
+    std::fs::create_dir_all(dir).map_err(|e| named(e, dir))?;
+    let mut staged = Vec::with_capacity(files.len());
+    for (name, bytes) in files {
+        let tmp = dir.join(format!(".{name}.tmp-{}", std::process::id()));
+        let mut f = std::fs::File::create(&tmp).map_err(|e| named(e, &tmp))?;
+        f.write_all(bytes).and_then(|()| f.sync_all()).map_err(|e| named(e, &tmp))?;
+        staged.push((tmp, dir.join(name)));
+    }
+    for (tmp, fin) in staged {
+        std::fs::rename(&tmp, &fin).map_err(|e| named(e, &fin))?;
+    }
+    Ok(())
+}
