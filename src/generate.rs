@@ -18,7 +18,7 @@ use rand::RngExt;
 use rand_distr::StudentT;
 
 /// Rows of the Toeplitz block in one matrix product.
-const BLOCK: usize = 32;
+const BLOCK: usize = 16;
 
 /// Everything needed to simulate paths of one scenario.
 #[derive(Debug, Clone)]
@@ -48,7 +48,7 @@ pub struct Workspace {
 impl Generator {
     /// A generator for `assets × dates` histories.
     pub fn new(model: &Model, assets: usize, dates: usize, tails: Tails) -> Self {
-        let k = model.truncation();
+        let k = model.loadings_used();
         let width = BLOCK + k - 1;
         let mut toeplitz = vec![0.0; BLOCK * width];
         for i in 0..BLOCK {

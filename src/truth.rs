@@ -44,6 +44,8 @@ pub struct Truth {
     pub near_best_tolerance: f64,
     /// Lag `K` beyond which the IC is zero.
     pub truncation: usize,
+    /// Loadings the generator uses (the rest of the `K` sum to under 1e-6).
+    pub loadings_used: usize,
 }
 
 /// 1-based index of the first maximum.
@@ -92,6 +94,7 @@ impl Truth {
             near_best,
             near_best_tolerance: tolerance,
             truncation: m.truncation(),
+            loadings_used: m.loadings_used(),
         })
     }
 

@@ -3,7 +3,7 @@
 //! multiply runs several times faster than separate dot products.
 
 /// Rows of `a` per matrix product.
-const BLOCK: usize = 32;
+const BLOCK: usize = 16;
 
 /// `out[t·w + d] = ⟨a_t, b_{t+d}⟩` for `t < rows_a`, `d < w`, `t + d < rows_b`
 /// (zero elsewhere). Rows have `n` entries. `tmp` is scratch.

@@ -86,14 +86,50 @@ pub struct Fit {
 struct Data<'a> {
     y: &'a [f64],
     w: Vec<f64>,
+    ln_k: Vec<f64>,
 }
 
 impl Data<'_> {
+    /// Unit-amplitude shape at every lag into `s` (one `exp` per lag at most:
+    /// powers go through the precomputed `ln k`).
+    fn shape_into(&self, fam: Family, t1: f64, t2: f64, s: &mut [f64]) {
+        match fam {
+            Family::Exponential => {
+                let r = (-1.0 / t1).exp2();
+                let mut x = 1.0;
+                for v in s.iter_mut() {
+                    *v = x;
+                    x *= r;
+                }
+            }
+            Family::Power => s.iter_mut().zip(&self.ln_k).for_each(|(v, l)| *v = (-t1 * l).exp()),
+            Family::Linear => {
+                s.iter_mut().enumerate().for_each(|(i, v)| *v = fam.shape((i + 1) as f64, t1, t2));
+            }
+            Family::Hump => {
+                // (k/p)^a·exp(a(1−k/p)) = exp(a·(ln k − ln p + 1 − k/p))
+                let ln_p = t1.ln();
+                for (i, (v, l)) in s.iter_mut().zip(&self.ln_k).enumerate() {
+                    let x = (i + 1) as f64 / t1;
+                    *v = (t2 * (l - ln_p + 1.0 - x)).exp();
+                }
+            }
+        }
+    }
+
     /// `(χ², A)` of the best amplitude for the given shape.
     fn score(&self, fam: Family, t1: f64, t2: f64) -> (f64, f64) {
+        let mut shape = [0.0; 64];
+        let mut heap = Vec::new();
+        let s: &mut [f64] = if self.y.len() <= 64 {
+            &mut shape[..self.y.len()]
+        } else {
+            heap.resize(self.y.len(), 0.0);
+            &mut heap
+        };
+        self.shape_into(fam, t1, t2, s);
         let (mut sy, mut ss, mut yy) = (0.0, 0.0, 0.0);
-        for (i, (&y, &w)) in self.y.iter().zip(&self.w).enumerate() {
-            let s = fam.shape((i + 1) as f64, t1, t2);
+        for ((&y, &w), &s) in self.y.iter().zip(&self.w).zip(s.iter()) {
             sy += w * s * y;
             ss += w * s * s;
             yy += w * y * y;
@@ -119,7 +155,7 @@ fn search(grid: &[f64], f: impl Fn(f64) -> f64) -> f64 {
     let g = 0.5 * (5f64.sqrt() - 1.0);
     let (mut c, mut d) = (b - g * (b - a), a + g * (b - a));
     let (mut fc, mut fd) = (f(c.exp()), f(d.exp()));
-    for _ in 0..30 {
+    for _ in 0..24 {
         if fc < fd {
             b = d;
             d = c;
@@ -143,12 +179,12 @@ fn fit_family(data: &Data, fam: Family) -> Fit {
     let l = data.y.len() as f64;
     let chi = |t1: f64, t2: f64| data.score(fam, t1, t2).0;
     let (t1, t2) = match fam {
-        Family::Exponential => (search(&log_grid(0.2, 8.0 * l, 40), |h| chi(h, 0.0)), 0.0),
-        Family::Power => (search(&log_grid(0.02, 5.0, 40), |a| chi(a, 0.0)), 0.0),
-        Family::Linear => (search(&log_grid(1.2, 4.0 * l, 40), |m| chi(m, 0.0)), 0.0),
+        Family::Exponential => (search(&log_grid(0.2, 8.0 * l, 28), |h| chi(h, 0.0)), 0.0),
+        Family::Power => (search(&log_grid(0.02, 5.0, 28), |a| chi(a, 0.0)), 0.0),
+        Family::Linear => (search(&log_grid(1.2, 4.0 * l, 28), |m| chi(m, 0.0)), 0.0),
         Family::Hump => {
             let shapes = log_grid(0.5, 8.0, 7);
-            let peaks = log_grid(0.5, 2.0 * l, 24);
+            let peaks = log_grid(0.5, 2.0 * l, 18);
             let (mut best, mut bp, mut ba) = (f64::INFINITY, peaks[0], shapes[0]);
             for &a in &shapes {
                 for &p in &peaks {
@@ -186,7 +222,8 @@ fn weights(se: &[Option<f64>]) -> Vec<f64> {
 
 /// Fits every family and returns them in [`Family::ALL`] order.
 pub fn fit_all(lagged: &[f64], se: &[Option<f64>]) -> Vec<Fit> {
-    let data = Data { y: lagged, w: weights(se) };
+    let ln_k = (1..=lagged.len()).map(|k| (k as f64).ln()).collect();
+    let data = Data { y: lagged, w: weights(se), ln_k };
     Family::ALL.iter().map(|&f| fit_family(&data, f)).collect()
 }
 

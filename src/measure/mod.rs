@@ -99,13 +99,12 @@ pub struct Measurement {
     order: Vec<usize>,
 }
 
-/// Demeans each row of `src` (rows of `n`) into `dst`; returns nothing.
+/// Demeans each row of `src` (rows of `n`) into `dst`.
 fn demean_rows(src: &[f64], n: usize, dst: &mut Vec<f64>) {
-    dst.clear();
-    dst.extend_from_slice(src);
-    for row in dst.chunks_exact_mut(n) {
-        let mean = row.iter().sum::<f64>() / n as f64;
-        row.iter_mut().for_each(|x| *x -= mean);
+    dst.resize(src.len(), 0.0);
+    for (s, d) in src.chunks_exact(n).zip(dst.chunks_exact_mut(n)) {
+        let mean = s.iter().sum::<f64>() / n as f64;
+        d.iter_mut().zip(s).for_each(|(d, s)| *d = s - mean);
     }
 }
 

@@ -95,9 +95,10 @@ pub fn terminal_summary(setup: &Setup, study: &StudyResult) -> String {
     let _ = writeln!(out, "lagfold · {}{}", s.name, if s.description.is_empty() { String::new() } else { format!(" — {}", s.description) });
     let _ = writeln!(
         out,
-        "  {} assets × {} {unit}ly dates ({:.1} years), horizons 1–{}, {} paths, seed {}\n",
+        "  {} assets × {} {} dates ({:.1} years), horizons 1–{}, {} paths, seed {}\n",
         s.assets,
         s.history,
+        adjective(unit),
         s.history as f64 / s.periods_per_year,
         s.horizons,
         study.paths,
