@@ -48,7 +48,11 @@ fn benches(c: &mut Criterion) {
         path * 1e3,
         bare * 1e3
     );
-    println!("speed  one path on one thread = {:.3} ms; NumPy reference 10 ms (NOTES.md) → {:.1}× (target ≥ 4×)", path * 1e3, 0.010 / path);
+    println!(
+        "speed  one path on one thread = {:.3} ms; NumPy reference 10 ms (NOTES.md) → {:.1}× (target ≥ 4×)",
+        path * 1e3,
+        0.010 / path
+    );
 }
 
 criterion_group!(group, benches);

@@ -63,27 +63,15 @@ pub struct DecayCurve {
 }
 
 fn check_ic(key: &str, v: f64) -> Result<f64, ScenarioError> {
-    if v.is_finite() && v > -1.0 && v < 1.0 {
-        Ok(v)
-    } else {
-        Err(out_of_range(key, v, "inside (-1, 1)"))
-    }
+    if v.is_finite() && v > -1.0 && v < 1.0 { Ok(v) } else { Err(out_of_range(key, v, "inside (-1, 1)")) }
 }
 
 fn check_positive(key: &str, v: f64) -> Result<f64, ScenarioError> {
-    if v.is_finite() && v > 0.0 {
-        Ok(v)
-    } else {
-        Err(out_of_range(key, v, "> 0"))
-    }
+    if v.is_finite() && v > 0.0 { Ok(v) } else { Err(out_of_range(key, v, "> 0")) }
 }
 
 pub(crate) fn out_of_range(key: &str, v: impl std::fmt::Display, allowed: &str) -> ScenarioError {
-    ScenarioError::OutOfRange {
-        key: key.to_string(),
-        value: v.to_string(),
-        allowed: allowed.to_string(),
-    }
+    ScenarioError::OutOfRange { key: key.to_string(), value: v.to_string(), allowed: allowed.to_string() }
 }
 
 impl DecayCurve {

@@ -14,6 +14,6 @@ pub mod model;
 pub mod report;
 pub mod rng;
 pub mod scenario;
-pub mod study;
 pub mod stats;
+pub mod study;
 pub mod truth;

@@ -111,9 +111,8 @@ impl Model {
             })
             .collect();
         let scale = 1.0 / (1.0 - rho * rho).sqrt();
-        let mut loadings: Vec<f64> = (0..k_max)
-            .map(|k| (pooled[k] - rho * pooled.get(k + 1).copied().unwrap_or(0.0)) * scale)
-            .collect();
+        let mut loadings: Vec<f64> =
+            (0..k_max).map(|k| (pooled[k] - rho * pooled.get(k + 1).copied().unwrap_or(0.0)) * scale).collect();
         // Cut the tail of loadings whose total size is below TAIL: every pooled
         // correlation moves by at most sqrt(1−ρ²)·TAIL, far below any Monte Carlo
         // error, and the generator's convolution gets shorter. The truth is then
@@ -134,7 +133,7 @@ impl Model {
         };
         let sum_b2: f64 = loadings.iter().map(|b| b * b).sum();
         let implied = 1.0 - sum_b2 - v * v;
-        if !(implied > 1e-6) {
+        if implied.is_nan() || implied <= 1e-6 {
             return Err(ScenarioError::Infeasible { sum_b2, ic_vol_sq: v * v, implied });
         }
         Ok(Self {
@@ -199,8 +198,8 @@ mod tests {
 
     #[test]
     fn quadrature_integrates_normal_moments() {
-        let (m0, m2, m4) = normal_quadrature()
-            .fold((0.0, 0.0, 0.0), |a, (x, w)| (a.0 + w, a.1 + w * x * x, a.2 + w * x.powi(4)));
+        let (m0, m2, m4) =
+            normal_quadrature().fold((0.0, 0.0, 0.0), |a, (x, w)| (a.0 + w, a.1 + w * x * x, a.2 + w * x.powi(4)));
         assert!((m0 - 1.0).abs() < 1e-14 && (m2 - 1.0).abs() < 1e-14 && (m4 - 3.0).abs() < 1e-13);
     }
 

@@ -67,18 +67,18 @@ impl Truth {
     pub fn new(m: &Model, horizons: usize, tolerance: f64) -> Result<Self, ScenarioError> {
         let l = horizons;
         let lagged_ic: Vec<f64> = (1..=l).map(|k| m.per_date_lagged_ic(k)).collect();
-        let horizon_ic_simple = cumulative_over_sqrt(&(1..=l).map(|k| m.target.get(k - 1).copied().unwrap_or(0.0)).collect::<Vec<_>>(), |n| n as f64);
+        let horizon_ic_simple = cumulative_over_sqrt(
+            &(1..=l).map(|k| m.target.get(k - 1).copied().unwrap_or(0.0)).collect::<Vec<_>>(),
+            |n| n as f64,
+        );
         let gamma: Vec<f64> = (0..l).map(|d| m.return_autocov(d)).collect();
         let pooled_var = |n: usize| n as f64 + 2.0 * (1..n).map(|d| (n - d) as f64 * gamma[d]).sum::<f64>();
         let horizon_ic_pooled = cumulative_over_sqrt(&(1..=l).map(|k| m.g(k)).collect::<Vec<_>>(), pooled_var);
-        let (horizon_ic, horizon_ic_integration_se) = if m.ic_vol == 0.0 {
-            (horizon_ic_pooled.clone(), 0.0)
-        } else {
-            per_date_horizon_ic(m, l)
-        };
+        let (horizon_ic, horizon_ic_integration_se) =
+            if m.ic_vol == 0.0 { (horizon_ic_pooled.clone(), 0.0) } else { per_date_horizon_ic(m, l) };
         let best_horizon = argmax1(&horizon_ic);
         let peak = horizon_ic[best_horizon - 1];
-        if !(peak > 0.0) {
+        if peak.is_nan() || peak <= 0.0 {
             return Err(ScenarioError::NoPositiveHorizon { horizons: l, best: peak });
         }
         let near_best = near_set(&horizon_ic, tolerance);
@@ -143,11 +143,13 @@ fn per_date_horizon_ic(m: &Model, l: usize) -> (Vec<f64>, f64) {
     let g1 = g[0];
     let c_cum: Vec<f64> = {
         let mut acc = 0.0;
-        (1..=l).map(|n| {
-            let out = acc; // Σ_{d=1}^{n-1} c_d
-            acc += m.news_autocov(n);
-            out
-        }).collect()
+        (1..=l)
+            .map(|n| {
+                let out = acc; // Σ_{d=1}^{n-1} c_d
+                acc += m.news_autocov(n);
+                out
+            })
+            .collect()
     };
     let rho_cum: Vec<f64> = (1..=l).map(|n| (1..n).map(|d| rho.powi(d as i32)).sum()).collect();
     let mut rng = path_rng(SHOCK_SEED, 0);
@@ -169,8 +171,7 @@ fn per_date_horizon_ic(m: &Model, l: usize) -> (Vec<f64>, f64) {
             if n > 1 {
                 q = rho * (q + phi[n - 2]); // Q_n = Σ_{k<n} φ_k·ρ^{n−k}
             }
-            var += 1.0 - v * v + p * p + 2.0 * p * g1
-                + 2.0 * (c_cum[n - 1] + p * g1 * rho_cum[n - 1] + w + p * q);
+            var += 1.0 - v * v + p * p + 2.0 * p * g1 + 2.0 * (c_cum[n - 1] + p * g1 * rho_cum[n - 1] + w + p * q);
             out[n - 1] = num / var.sqrt();
         }
     };
@@ -193,9 +194,7 @@ fn per_date_horizon_ic(m: &Model, l: usize) -> (Vec<f64>, f64) {
     }
     let mp = SHOCK_PAIRS as f64;
     let mean: Vec<f64> = sum.iter().map(|s| s / mp).collect();
-    let se = (0..l)
-        .map(|n| ((sum_sq[n] / mp - mean[n] * mean[n]).max(0.0) / (mp - 1.0)).sqrt())
-        .fold(0.0, f64::max);
+    let se = (0..l).map(|n| ((sum_sq[n] / mp - mean[n] * mean[n]).max(0.0) / (mp - 1.0)).sqrt()).fold(0.0, f64::max);
     (mean, se)
 }
 

@@ -16,7 +16,8 @@ pub fn run(a: &PresetsArgs) -> Result<(), Failure> {
     if let Some(name) = &a.name {
         return print(presets::text(name).map_err(Failure::input)?);
     }
-    let mut out = String::from("Built-in scenarios (lagfold run <name>, or lagfold presets <name> > my.toml to edit one):\n");
+    let mut out =
+        String::from("Built-in scenarios (lagfold run <name>, or lagfold presets <name> > my.toml to edit one):\n");
     for (name, text) in presets::ALL {
         let raw = crate::scenario::parse(text, name).map_err(Failure::other)?;
         let default = if *name == presets::DEFAULT { " (demo)" } else { "" };

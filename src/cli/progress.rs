@@ -10,9 +10,11 @@ pub fn bar(total: usize, quiet: bool) -> ProgressBar {
     }
     let pb = ProgressBar::with_draw_target(Some(total as u64), ProgressDrawTarget::stderr());
     pb.set_style(
-        ProgressStyle::with_template("{spinner} paths {pos}/{len} [{bar:30}] {per_sec} · {elapsed} elapsed · {eta} left")
-            .expect("valid template")
-            .progress_chars("=> "),
+        ProgressStyle::with_template(
+            "{spinner} paths {pos}/{len} [{bar:30}] {per_sec} · {elapsed} elapsed · {eta} left",
+        )
+        .expect("valid template")
+        .progress_chars("=> "),
     );
     pb
 }

@@ -48,7 +48,13 @@ pub struct RunArgs {
 
 impl StudyArgs {
     fn overrides(&self) -> Overrides {
-        Overrides { assets: self.assets, history: self.history, horizons: self.horizons, paths: self.paths, seed: self.seed }
+        Overrides {
+            assets: self.assets,
+            history: self.history,
+            horizons: self.horizons,
+            paths: self.paths,
+            seed: self.seed,
+        }
     }
 }
 
@@ -56,7 +62,8 @@ impl StudyArgs {
 fn read_scenario(path: &Path, ov: &Overrides) -> Result<Scenario, Failure> {
     let name = path.to_string_lossy();
     if !path.exists() && presets::ALL.iter().any(|(n, _)| *n == name) {
-        return scenario::load(presets::text(&name).map_err(Failure::input)?, &format!("preset {name}"), &name, ov).map_err(Failure::input);
+        return scenario::load(presets::text(&name).map_err(Failure::input)?, &format!("preset {name}"), &name, ov)
+            .map_err(Failure::input);
     }
     let text = std::fs::read_to_string(path)
         .map_err(|e| Failure::input(crate::error::InputError::Read { path: path.to_path_buf(), source: e }))?;

@@ -6,8 +6,10 @@
 const BLOCK: usize = 16;
 
 /// `out[t·w + d] = ⟨a_t, b_{t+d}⟩` for `t < rows_a`, `d < w`, `t + d < rows_b`
-/// (zero elsewhere). Rows have `n` entries. `tmp` is scratch.
-pub fn banded_products(a: &[f64], rows_a: usize, b: &[f64], rows_b: usize, n: usize, w: usize, tmp: &mut Vec<f64>, out: &mut Vec<f64>) {
+/// (zero elsewhere), where `a` and `b` are row-major with rows of `n` entries.
+/// `tmp` is scratch.
+pub fn banded_products(a: &[f64], b: &[f64], n: usize, w: usize, tmp: &mut Vec<f64>, out: &mut Vec<f64>) {
+    let (rows_a, rows_b) = (a.len() / n, b.len() / n);
     out.clear();
     out.resize(rows_a * w, 0.0);
     let mut t0 = 0;
@@ -56,14 +58,10 @@ mod tests {
         let a: Vec<f64> = (0..ra * n).map(|i| ((i * 37) % 11) as f64 - 5.0).collect();
         let b: Vec<f64> = (0..rb * n).map(|i| ((i * 13) % 7) as f64 - 3.0).collect();
         let (mut tmp, mut out) = (Vec::new(), Vec::new());
-        banded_products(&a, ra, &b, rb, n, w, &mut tmp, &mut out);
+        banded_products(&a, &b, n, w, &mut tmp, &mut out);
         for t in 0..ra {
             for d in 0..w {
-                let want: f64 = if t + d < rb {
-                    (0..n).map(|i| a[t * n + i] * b[(t + d) * n + i]).sum()
-                } else {
-                    0.0
-                };
+                let want: f64 = if t + d < rb { (0..n).map(|i| a[t * n + i] * b[(t + d) * n + i]).sum() } else { 0.0 };
                 assert_eq!(out[t * w + d], want, "t {t} d {d}");
             }
         }

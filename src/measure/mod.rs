@@ -15,6 +15,7 @@ pub mod hac;
 mod panel;
 pub mod rank;
 pub mod rules;
+pub mod sign;
 
 pub use panel::Panel;
 
@@ -137,9 +138,8 @@ impl Measurement {
 
     fn pearson_and_horizon(&mut self, fdm: &[f64], rdm: &[f64], n: usize, t: usize) {
         let l = self.horizons;
-        let rows_r = t - 1;
-        banded_products(fdm, t, rdm, rows_r, n, l, &mut self.tmp, &mut self.cross);
-        banded_products(rdm, rows_r, rdm, rows_r, n, l, &mut self.tmp, &mut self.gram);
+        banded_products(fdm, rdm, n, l, &mut self.tmp, &mut self.cross);
+        banded_products(rdm, rdm, n, l, &mut self.tmp, &mut self.gram);
         self.lagged.reset(l, t);
         self.horizon.reset(l, t);
         let (cross, gram) = (&self.cross, &self.gram);
@@ -174,7 +174,7 @@ impl Measurement {
         ranked(&panel.forecasts, &mut self.fdm, &mut order);
         ranked(&panel.returns, &mut self.rdm, &mut order);
         self.order = order;
-        banded_products(&self.fdm, t, &self.rdm, t - 1, n, l, &mut self.tmp, &mut self.cross);
+        banded_products(&self.fdm, &self.rdm, n, l, &mut self.tmp, &mut self.cross);
         self.rank_lagged.reset(l, t);
         for date in 0..t - 1 {
             let f_ss: f64 = self.fdm[date * n..(date + 1) * n].iter().map(|x| x * x).sum();

@@ -29,10 +29,11 @@ fn finish(w: csv::Writer<Vec<u8>>) -> Vec<u8> {
 pub fn curves_csv(setup: &Setup, study: &StudyResult) -> Vec<u8> {
     let t = &setup.truth;
     let mut w = csv::Writer::from_writer(Vec::new());
-    let mut header: Vec<String> = ["n", "true_lagged_ic", "true_horizon_ic", "true_horizon_ic_pooled", "true_horizon_ic_simple", "near_best"]
-        .iter()
-        .map(|s| s.to_string())
-        .collect();
+    let mut header: Vec<String> =
+        ["n", "true_lagged_ic", "true_horizon_ic", "true_horizon_ic_pooled", "true_horizon_ic_simple", "near_best"]
+            .iter()
+            .map(|s| s.to_string())
+            .collect();
     header.extend(band_headers("lagged_ic"));
     header.extend(band_headers("horizon_ic"));
     if study.rank_lagged_ic.is_some() {

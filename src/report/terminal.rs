@@ -92,7 +92,12 @@ pub fn terminal_summary(setup: &Setup, study: &StudyResult) -> String {
     let (s, t) = (&setup.scenario, &setup.truth);
     let unit = period_word(s.periods_per_year);
     let mut out = String::new();
-    let _ = writeln!(out, "lagfold · {}{}", s.name, if s.description.is_empty() { String::new() } else { format!(" — {}", s.description) });
+    let _ = writeln!(
+        out,
+        "lagfold · {}{}",
+        s.name,
+        if s.description.is_empty() { String::new() } else { format!(" — {}", s.description) }
+    );
     let _ = writeln!(
         out,
         "  {} assets × {} {} dates ({:.1} years), horizons 1–{}, {} paths, seed {}\n",
@@ -105,9 +110,16 @@ pub fn terminal_summary(setup: &Setup, study: &StudyResult) -> String {
         s.seed
     );
     let _ = writeln!(out, "True curves (expected per-date IC at large breadth; IC zero beyond lag {})", t.truncation);
-    let _ = writeln!(out, "  {:>7}  {:>10}  {:>10}  {:>10}  {:>10}", "n", "lagged IC", "horizon IC", "pooled", "Σ IC/√n");
+    let _ =
+        writeln!(out, "  {:>7}  {:>10}  {:>10}  {:>10}  {:>10}", "n", "lagged IC", "horizon IC", "pooled", "Σ IC/√n");
     for n in shown_horizons(s.horizons, t.best_horizon) {
-        let mark = if n == t.best_horizon { "  ← best" } else if t.is_near_best(n) { "  · near" } else { "" };
+        let mark = if n == t.best_horizon {
+            "  ← best"
+        } else if t.is_near_best(n) {
+            "  · near"
+        } else {
+            ""
+        };
         let _ = writeln!(
             out,
             "  {n:>7}  {:>10.4}  {:>10.4}  {:>10.4}  {:>10.4}{mark}",
@@ -128,7 +140,11 @@ pub fn terminal_summary(setup: &Setup, study: &StudyResult) -> String {
     if t.best_horizon_simple != t.best_horizon {
         let _ = writeln!(out, "  (the simple Σ IC/√n form would say {})", plural(t.best_horizon_simple, unit));
     }
-    let _ = writeln!(out, "\nHow each rule picks the horizon ({} simulated histories; ± one Monte Carlo standard error)", study.paths);
+    let _ = writeln!(
+        out,
+        "\nHow each rule picks the horizon ({} simulated histories; ± one Monte Carlo standard error)",
+        study.paths
+    );
     let _ = writeln!(
         out,
         "  {:<8} {:>14}  {:>14}  {:>14}  {:>14}   {:>15}",
@@ -170,6 +186,9 @@ mod tests {
 
     #[test]
     fn period_words_follow_the_frequency() {
-        assert_eq!((period_word(12.0), period_word(52.0), period_word(252.0), period_word(7.0)), ("month", "week", "day", "period"));
+        assert_eq!(
+            (period_word(12.0), period_word(52.0), period_word(252.0), period_word(7.0)),
+            ("month", "week", "day", "period")
+        );
     }
 }

@@ -101,19 +101,11 @@ impl Overrides {
 }
 
 fn open_unit(key: &str, v: f64) -> Result<f64, ScenarioError> {
-    if v.is_finite() && v > -1.0 && v < 1.0 {
-        Ok(v)
-    } else {
-        Err(out_of_range(key, v, "inside (-1, 1)"))
-    }
+    if v.is_finite() && v > -1.0 && v < 1.0 { Ok(v) } else { Err(out_of_range(key, v, "inside (-1, 1)")) }
 }
 
 fn positive(key: &str, v: f64) -> Result<f64, ScenarioError> {
-    if v.is_finite() && v > 0.0 {
-        Ok(v)
-    } else {
-        Err(out_of_range(key, v, "> 0"))
-    }
+    if v.is_finite() && v > 0.0 { Ok(v) } else { Err(out_of_range(key, v, "> 0")) }
 }
 
 impl Scenario {
@@ -205,10 +197,8 @@ impl Scenario {
 /// # Errors
 /// [`InputError::Parse`] with the parser's line and column.
 pub fn parse(text: &str, origin: &str) -> Result<RawScenario, InputError> {
-    toml::from_str(text).map_err(|e| InputError::Parse {
-        origin: origin.to_string(),
-        message: e.to_string().trim_end().to_string(),
-    })
+    toml::from_str(text)
+        .map_err(|e| InputError::Parse { origin: origin.to_string(), message: e.to_string().trim_end().to_string() })
 }
 
 /// Parses, applies overrides and validates; a value error carries its line.

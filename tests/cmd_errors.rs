@@ -1,0 +1,115 @@
+//! Bad input: a clear message naming the file, line or field and the allowed
+//! range, exit code 2, never a panic.
+
+use assert_cmd::Command;
+
+/// Runs `lagfold run` on a scenario text; returns stderr after checking exit code 2.
+fn fails(toml: &str, extra: &[&str]) -> String {
+    let tmp = tempfile::tempdir().unwrap();
+    let file = tmp.path().join("bad.toml");
+    std::fs::write(&file, toml).unwrap();
+    let a = Command::cargo_bin("lagfold")
+        .unwrap()
+        .arg("run")
+        .arg(&file)
+        .args(extra)
+        .arg("--out")
+        .arg(tmp.path().join("o"))
+        .arg("-q")
+        .assert()
+        .code(2);
+    let err = String::from_utf8(a.get_output().stderr.clone()).unwrap();
+    assert!(!err.contains("panicked"), "{err}");
+    assert!(!tmp.path().join("o").exists(), "nothing written on bad input");
+    err
+}
+
+const DECAY: &str = "[decay]\nfamily = \"exponential\"\nic1 = 0.05\nhalf_life = 3\n";
+
+fn has(err: &str, parts: &[&str]) {
+    for p in parts {
+        assert!(err.contains(p), "expected {p:?} in: {err}");
+    }
+}
+
+#[test]
+fn an_unknown_field_names_itself_and_its_line() {
+    let err = fails(&format!("assets = 100\nasets = 100\n{DECAY}"), &[]);
+    has(&err, &["bad.toml", "line 2", "asets"]);
+}
+
+#[test]
+fn a_wrong_type_names_its_line() {
+    let err = fails(&format!("history = \"long\"\n{DECAY}"), &[]);
+    has(&err, &["bad.toml", "line 1", "history"]);
+}
+
+#[test]
+fn an_ic_outside_minus_one_one_is_refused_with_its_line() {
+    let err = fails("assets = 100\n[decay]\nfamily = \"exponential\"\nic1 = 1.5\nhalf_life = 3\n", &[]);
+    has(&err, &["bad.toml, line 4", "`decay.ic1` must be inside (-1, 1), got 1.5"]);
+    let err = fails("[decay]\nfamily = \"table\"\nvalues = [0.1, -1.0]\n", &[]);
+    has(&err, &["line 3", "decay.values[1]"]);
+}
+
+#[test]
+fn infeasible_variance_names_the_parts() {
+    let err = fails(
+        "forecast_autocorrelation = 0.95\nic_vol = 0.9\n[decay]\nfamily = \"step\"\nic = 0.2\nlength = 40\n",
+        &[],
+    );
+    has(&err, &["infeasible variance", "ic_vol", "idiosyncratic variance"]);
+}
+
+#[test]
+fn horizons_must_stay_below_history() {
+    let err = fails(&format!("history = 30\nhorizons = 30\n{DECAY}"), &[]);
+    has(&err, &["line 1", "`history` must be at least horizons + 2 = 32", "got 30"]);
+    let err = fails(&format!("history = 40\n{DECAY}"), &["--horizons", "40"]);
+    has(&err, &["history", "got 40"]);
+}
+
+#[test]
+fn breadth_below_ten_is_refused() {
+    let err = fails(&format!("assets = 5\n{DECAY}"), &[]);
+    has(&err, &["line 1", "`assets` must be at least 10, got 5"]);
+}
+
+#[test]
+fn student_t_needs_more_than_two_degrees_of_freedom() {
+    let err = fails(&format!("{DECAY}[tails]\nfamily = \"student_t\"\ndof = 2\n"), &[]);
+    has(&err, &["line 7", "`tails.dof` must be > 2", "got 2"]);
+}
+
+#[test]
+fn other_ranges_are_checked_too() {
+    for (line, key) in [
+        ("periods_per_year = 0", "periods_per_year"),
+        ("residual_vol = -0.1", "residual_vol"),
+        ("forecast_autocorrelation = 1", "forecast_autocorrelation"),
+        ("ic_vol = 1.2", "ic_vol"),
+        ("ic_vol_persistence = -1", "ic_vol_persistence"),
+        ("near_best_tolerance = 1.5", "near_best_tolerance"),
+        ("paths = 0", "paths"),
+        ("truncation = 0", "truncation"),
+    ] {
+        let err = fails(&format!("{line}\n{DECAY}"), &[]);
+        has(&err, &["line 1", &format!("`{key}` must be")]);
+    }
+    let err = fails("[decay]\nfamily = \"exponential\"\nic1 = 0.05\nhalf_life = -3\n", &[]);
+    has(&err, &["line 4", "`decay.half_life` must be > 0, got -3"]);
+    let err = fails("[decay]\nfamily = \"wiggly\"\n", &[]);
+    has(&err, &["line", "wiggly"]);
+    let err = fails("[decay]\nfamily = \"table\"\nvalues = [-0.05, -0.03]\n", &[]);
+    has(&err, &["not positive at any horizon"]);
+}
+
+#[test]
+fn a_missing_file_and_bad_options_exit_with_two() {
+    let a = Command::cargo_bin("lagfold").unwrap().args(["run", "no-such-file.toml"]).assert().code(2);
+    assert!(String::from_utf8_lossy(&a.get_output().stderr).contains("cannot read no-such-file.toml"));
+    Command::cargo_bin("lagfold").unwrap().args(["demo", "--paths", "-3"]).assert().code(2);
+    Command::cargo_bin("lagfold").unwrap().args(["demo", "--threads", "0"]).assert().code(2);
+    let a = Command::cargo_bin("lagfold").unwrap().args(["presets", "nope"]).assert().code(2);
+    assert!(String::from_utf8_lossy(&a.get_output().stderr).contains("monthly-steady"));
+}

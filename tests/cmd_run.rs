@@ -1,0 +1,163 @@
+//! `lagfold run`, `demo` and `presets` as a user runs them.
+
+use assert_cmd::Command;
+use serde_json::Value;
+use std::path::Path;
+
+fn lagfold() -> Command {
+    Command::cargo_bin("lagfold").unwrap()
+}
+
+fn summary(dir: &Path) -> Value {
+    serde_json::from_slice(&std::fs::read(dir.join("summary.json")).unwrap()).unwrap()
+}
+
+#[test]
+fn demo_writes_the_summary_and_tables_and_says_it_plainly() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("demo");
+    let a = lagfold().args(["demo", "--paths", "60", "--out"]).arg(&out).assert().success();
+    let stdout = String::from_utf8(a.get_output().stdout.clone()).unwrap();
+    for needle in [
+        "True optimal horizon",
+        "exact hit",
+        "within ±1",
+        "In plain words",
+        "not investment advice",
+        "peak",
+        "formula",
+        "fitted",
+    ] {
+        assert!(stdout.contains(needle), "missing {needle:?} in\n{stdout}");
+    }
+    let s = summary(&out);
+    let l = s["scenario"]["horizons"].as_u64().unwrap() as usize;
+    for key in ["lagged_ic", "horizon_ic", "horizon_ic_simple", "horizon_ic_pooled", "near_best"] {
+        assert!(s["truth"][key].is_array(), "truth.{key}");
+    }
+    assert_eq!(s["truth"]["lagged_ic"].as_array().unwrap().len(), l);
+    let best = s["truth"]["best_horizon"].as_u64().unwrap() as usize;
+    assert!((1..=l).contains(&best));
+    assert!(s["truth"]["near_best"].as_array().unwrap().iter().any(|v| v.as_u64() == Some(best as u64)));
+    assert_eq!(s["study"]["paths"], 60);
+    assert_eq!(s["study"]["seed"], 20261202);
+    for rule in ["peak", "formula", "fitted"] {
+        let r = &s["study"]["rules"][rule];
+        for key in ["hit_rate", "hit_rate_se", "near_hit_rate", "near_hit_rate_se", "regret_mean", "regret_rel_mean"] {
+            assert!(r[key].is_number(), "study.rules.{rule}.{key}");
+        }
+        let counts: Vec<u64> = r["choice_counts"].as_array().unwrap().iter().map(|v| v.as_u64().unwrap()).collect();
+        assert_eq!(counts.len(), l);
+        assert_eq!(counts.iter().sum::<u64>(), 60);
+        let hits = counts[best - 1] as f64 / 60.0;
+        assert!((r["hit_rate"].as_f64().unwrap() - hits).abs() < 1e-12, "hit rate agrees with the counts");
+    }
+    let curves = std::fs::read_to_string(out.join("curves.csv")).unwrap();
+    assert_eq!(curves.lines().count(), l + 1);
+    assert!(curves.starts_with("n,true_lagged_ic,true_horizon_ic,"));
+    let choices = std::fs::read_to_string(out.join("choices.csv")).unwrap();
+    assert!(choices.starts_with("horizon,is_best,near_best,true_horizon_ic,peak_count,peak_share"));
+    let leftovers: Vec<_> = std::fs::read_dir(&out)
+        .unwrap()
+        .filter_map(|e| e.ok())
+        .filter(|e| e.file_name().to_string_lossy().contains(".tmp"))
+        .collect();
+    assert!(leftovers.is_empty(), "temporary files left: {leftovers:?}");
+}
+
+#[test]
+fn run_takes_a_preset_name_and_the_common_overrides() {
+    let tmp = tempfile::tempdir().unwrap();
+    let a = lagfold()
+        .args([
+            "run",
+            "weekly-hump",
+            "--paths",
+            "30",
+            "--assets",
+            "200",
+            "--history",
+            "80",
+            "--horizons",
+            "10",
+            "--seed",
+            "3",
+            "--quiet",
+            "--out",
+        ])
+        .arg(tmp.path())
+        .assert()
+        .success();
+    assert!(a.get_output().stdout.is_empty(), "--quiet prints nothing");
+    let s = summary(tmp.path());
+    assert_eq!(s["scenario"]["assets"], 200);
+    assert_eq!(s["scenario"]["history"], 80);
+    assert_eq!(s["scenario"]["horizons"], 10);
+    assert_eq!(s["study"]["seed"], 3);
+    assert_eq!(s["study"]["paths"], 30);
+    assert_eq!(s["scenario"]["decay"]["family"], "hump");
+}
+
+#[test]
+fn outputs_are_byte_identical_on_one_and_two_threads() {
+    let tmp = tempfile::tempdir().unwrap();
+    for threads in ["1", "2"] {
+        lagfold()
+            .args([
+                "run",
+                "monthly-regimes",
+                "--paths",
+                "150",
+                "--assets",
+                "120",
+                "--history",
+                "60",
+                "--horizons",
+                "12",
+                "-q",
+                "--threads",
+                threads,
+                "--out",
+            ])
+            .arg(tmp.path().join(threads))
+            .assert()
+            .success();
+    }
+    for file in ["summary.json", "curves.csv", "choices.csv"] {
+        let one = std::fs::read(tmp.path().join("1").join(file)).unwrap();
+        let two = std::fs::read(tmp.path().join("2").join(file)).unwrap();
+        assert!(one == two, "{file} differs between 1 and 2 threads");
+    }
+}
+
+#[test]
+fn a_scenario_file_runs_and_replaces_earlier_outputs() {
+    let tmp = tempfile::tempdir().unwrap();
+    let file = tmp.path().join("my-signal.toml");
+    std::fs::write(
+        &file,
+        "assets = 100\nhistory = 40\nhorizons = 6\npaths = 20\n[decay]\nfamily = \"step\"\nic = 0.05\nlength = 3\n",
+    )
+    .unwrap();
+    let out = tmp.path().join("out");
+    std::fs::create_dir_all(&out).unwrap();
+    std::fs::write(out.join("summary.json"), "old").unwrap();
+    std::fs::write(out.join("keep.txt"), "mine").unwrap();
+    lagfold().arg("run").arg(&file).arg("--out").arg(&out).arg("-q").assert().success();
+    assert_eq!(summary(&out)["scenario"]["name"], "my-signal");
+    assert_eq!(std::fs::read_to_string(out.join("keep.txt")).unwrap(), "mine");
+}
+
+#[test]
+fn presets_are_listed_and_print_as_valid_scenarios() {
+    let a = lagfold().arg("presets").assert().success();
+    let text = String::from_utf8(a.get_output().stdout.clone()).unwrap();
+    for name in ["monthly-steady", "weekly-hump", "daily-slow-burn", "monthly-regimes", "weekly-reversal"] {
+        assert!(text.contains(name), "{name} listed");
+        let t = lagfold().args(["presets", name]).assert().success();
+        let toml = String::from_utf8(t.get_output().stdout.clone()).unwrap();
+        let s = lagfold::scenario::load(&toml, name, name, &Default::default()).unwrap();
+        lagfold::study::Setup::new(s).unwrap();
+    }
+    assert!(text.contains("(demo)"));
+}

@@ -1,0 +1,40 @@
+//! Helpers shared by the integration tests.
+#![allow(dead_code)]
+
+use lagfold::generate::Workspace;
+use lagfold::measure::{Measurement, Panel};
+use lagfold::rng::path_rng;
+use lagfold::scenario::{self, Overrides};
+use lagfold::study::Setup;
+
+/// A set-up from a scenario text.
+pub fn setup(toml: &str) -> Setup {
+    let s = scenario::load(toml, "test", "test", &Overrides::default()).unwrap();
+    Setup::new(s).unwrap()
+}
+
+/// Calls `each` with every simulated panel of the scenario and its measurement.
+pub fn for_each_path(setup: &Setup, mut each: impl FnMut(&Panel, &Measurement)) {
+    let mut ws = Workspace::default();
+    let mut m = Measurement::new(setup.scenario.horizons, setup.scenario.rank_ic);
+    for p in 0..setup.scenario.paths {
+        let mut rng = path_rng(setup.scenario.seed, p as u64);
+        setup.generator.simulate(&mut rng, &mut ws);
+        m.update(&ws.panel);
+        each(&ws.panel, &m);
+    }
+}
+
+/// Expected sample correlation of `n` bivariate-normal pairs with correlation
+/// `rho`: `ρ·(1 − (1 − ρ²)/(2n))` to order `1/n` (Fisher, 1915).
+pub fn expected_sample_corr(rho: f64, n: usize) -> f64 {
+    rho * (1.0 - (1.0 - rho * rho) / (2.0 * n as f64))
+}
+
+/// Mean and standard error of the mean.
+pub fn mean_se(xs: &[f64]) -> (f64, f64) {
+    let n = xs.len() as f64;
+    let m = xs.iter().sum::<f64>() / n;
+    let v = xs.iter().map(|x| (x - m).powi(2)).sum::<f64>() / (n - 1.0);
+    (m, (v / n).sqrt())
+}
