@@ -59,6 +59,63 @@ pub struct PathOutcome {
     pub choices: Choices,
 }
 
+/// Every path's outcome, stored flat and in path order (one allocation per
+/// field, so that millions of small vectors do not fragment the heap).
+#[derive(Debug, Clone, Default)]
+pub struct Outcomes {
+    len: usize,
+    lagged: Vec<f64>,
+    horizon: Vec<f64>,
+    rank_lagged: Vec<f64>,
+    choices: Vec<Choices>,
+}
+
+impl Outcomes {
+    fn with_capacity(paths: usize, l: usize, rank: bool) -> Self {
+        Self {
+            len: l,
+            lagged: Vec::with_capacity(paths * l),
+            horizon: Vec::with_capacity(paths * l),
+            rank_lagged: Vec::with_capacity(if rank { paths * l } else { 0 }),
+            choices: Vec::with_capacity(paths),
+        }
+    }
+
+    fn push(&mut self, o: PathOutcome) {
+        self.lagged.extend_from_slice(&o.lagged);
+        self.horizon.extend_from_slice(&o.horizon);
+        if let Some(r) = &o.rank_lagged {
+            self.rank_lagged.extend_from_slice(r);
+        }
+        self.choices.push(o.choices);
+    }
+
+    /// Number of paths.
+    pub fn paths(&self) -> usize {
+        self.choices.len()
+    }
+
+    /// Mean lagged IC of path `p`.
+    pub fn lagged(&self, p: usize) -> &[f64] {
+        &self.lagged[p * self.len..(p + 1) * self.len]
+    }
+
+    /// Mean horizon IC of path `p`.
+    pub fn horizon(&self, p: usize) -> &[f64] {
+        &self.horizon[p * self.len..(p + 1) * self.len]
+    }
+
+    /// Mean rank lagged IC of path `p` (empty when not measured).
+    pub fn rank_lagged(&self, p: usize) -> &[f64] {
+        self.rank_lagged.get(p * self.len..(p + 1) * self.len).unwrap_or(&[])
+    }
+
+    /// The rules' choices on path `p`.
+    pub fn choices(&self, p: usize) -> &Choices {
+        &self.choices[p]
+    }
+}
+
 /// Per-worker buffers.
 #[derive(Debug, Clone)]
 pub struct Worker {
@@ -172,24 +229,27 @@ pub fn run(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> 
 }
 
 /// Simulates every path; the outcomes come back in path order.
-pub fn simulate_all(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> Vec<PathOutcome> {
+pub fn simulate_all(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> Outcomes {
     let pool = rayon::ThreadPoolBuilder::new().num_threads(threads.max(1)).build().expect("thread pool");
     let paths = setup.scenario.paths;
+    // Each chunk is cut into `parts` contiguous runs of paths, one per worker;
+    // workers keep their buffers from chunk to chunk.
     let parts = 2 * threads.max(1);
-    let mut out = Vec::with_capacity(paths);
+    let mut workers: Vec<Worker> = (0..parts).map(|_| Worker::new(&setup.scenario)).collect();
+    let mut out = Outcomes::with_capacity(paths, setup.scenario.horizons, setup.scenario.rank_ic);
     pool.install(|| {
         let mut start = 0;
         while start < paths {
             let end = (start + CHUNK).min(paths);
-            let pieces: Vec<Vec<PathOutcome>> = (0..parts)
-                .into_par_iter()
-                .map(|j| {
+            let pieces: Vec<Vec<PathOutcome>> = workers
+                .par_iter_mut()
+                .enumerate()
+                .map(|(j, w)| {
                     let (a, b) = (start + (end - start) * j / parts, start + (end - start) * (j + 1) / parts);
-                    let mut w = Worker::new(&setup.scenario);
                     (a..b).map(|p| w.run_path(setup, p as u64)).collect()
                 })
                 .collect();
-            out.extend(pieces.into_iter().flatten());
+            pieces.into_iter().flatten().for_each(|o| out.push(o));
             start = end;
             progress(start);
         }
@@ -197,11 +257,11 @@ pub fn simulate_all(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + S
     out
 }
 
-fn curve_stats(rows: impl Fn(&PathOutcome) -> &[f64], outcomes: &[PathOutcome], len: usize) -> CurveStats {
+fn curve_stats<'a>(rows: impl Fn(usize) -> &'a [f64], paths: usize, len: usize) -> CurveStats {
     let mut moments = vec![Moments::default(); len];
-    let mut columns = vec![Vec::with_capacity(outcomes.len()); len];
-    for o in outcomes {
-        for (k, &v) in rows(o).iter().enumerate() {
+    let mut columns = vec![Vec::with_capacity(paths); len];
+    for p in 0..paths {
+        for (k, &v) in rows(p).iter().enumerate() {
             moments[k].push(v);
             columns[k].push(v);
         }
@@ -214,17 +274,17 @@ fn curve_stats(rows: impl Fn(&PathOutcome) -> &[f64], outcomes: &[PathOutcome], 
     }
 }
 
-fn rule_stats(rule: Rule, idx: usize, setup: &Setup, outcomes: &[PathOutcome]) -> RuleStats {
+fn rule_stats(rule: Rule, idx: usize, setup: &Setup, outcomes: &Outcomes) -> RuleStats {
     let truth = &setup.truth;
-    let (best, l, p) = (truth.best_horizon, setup.scenario.horizons, outcomes.len() as u64);
+    let (best, l, p) = (truth.best_horizon, setup.scenario.horizons, outcomes.paths() as u64);
     let h_best = truth.h(best);
     let mut counts = vec![0u64; l];
     let (mut hit, mut near, mut in_set) = (0u64, 0u64, 0u64);
     let (mut regret, mut rel, mut curse) = (Moments::default(), Moments::default(), Moments::default());
-    let mut rels = Vec::with_capacity(outcomes.len());
-    let mut chosen = Vec::with_capacity(outcomes.len());
-    for o in outcomes {
-        let n = o.choices.horizon[idx];
+    let mut rels = Vec::with_capacity(outcomes.paths());
+    let mut chosen = Vec::with_capacity(outcomes.paths());
+    for path in 0..outcomes.paths() {
+        let n = outcomes.choices(path).horizon[idx];
         counts[n - 1] += 1;
         hit += u64::from(n == best);
         near += u64::from(n.abs_diff(best) <= 1);
@@ -234,7 +294,7 @@ fn rule_stats(rule: Rule, idx: usize, setup: &Setup, outcomes: &[PathOutcome]) -
         rel.push(r / h_best);
         rels.push(r / h_best);
         chosen.push(n as f64);
-        curse.push(o.horizon[n - 1] - truth.h(n));
+        curse.push(outcomes.horizon(path)[n - 1] - truth.h(n));
     }
     rels.sort_by(f64::total_cmp);
     chosen.sort_by(f64::total_cmp);
@@ -260,24 +320,24 @@ fn rule_stats(rule: Rule, idx: usize, setup: &Setup, outcomes: &[PathOutcome]) -
 }
 
 /// Folds path outcomes (in path order) into the study's results.
-pub fn aggregate(setup: &Setup, outcomes: &[PathOutcome]) -> StudyResult {
+pub fn aggregate(setup: &Setup, outcomes: &Outcomes) -> StudyResult {
     let l = setup.scenario.horizons;
     let stats = |r: Rule, i| rule_stats(r, i, setup, outcomes);
     let mut fitted_families: BTreeMap<String, u64> = Family::ALL.iter().map(|f| (f.name().to_string(), 0)).collect();
-    for o in outcomes {
-        *fitted_families.entry(o.choices.family.name().to_string()).or_default() += 1;
+    for p in 0..outcomes.paths() {
+        *fitted_families.entry(outcomes.choices(p).family.name().to_string()).or_default() += 1;
     }
     StudyResult {
-        paths: outcomes.len(),
+        paths: outcomes.paths(),
         seed: setup.scenario.seed,
         se_method: "Newey-West (Bartlett) with max(2n, floor(4(m/100)^(2/9))) lags for horizon n over m dates; lagged ICs use n = 1".into(),
         rules: RulesOut { peak: stats(Rule::Peak, 0), formula: stats(Rule::Formula, 1), fitted: stats(Rule::Fitted, 2) },
         fitted_families,
-        lagged_ic: curve_stats(|o| &o.lagged, outcomes, l),
-        horizon_ic: curve_stats(|o| &o.horizon, outcomes, l),
+        lagged_ic: curve_stats(|p| outcomes.lagged(p), outcomes.paths(), l),
+        horizon_ic: curve_stats(|p| outcomes.horizon(p), outcomes.paths(), l),
         rank_lagged_ic: setup
             .scenario
             .rank_ic
-            .then(|| curve_stats(|o| o.rank_lagged.as_deref().unwrap_or(&[]), outcomes, l)),
+            .then(|| curve_stats(|p| outcomes.rank_lagged(p), outcomes.paths(), l)),
     }
 }
