@@ -2,16 +2,37 @@
 //!
 //! Per-date horizon ICs overlap: at horizon `n` neighbouring dates share
 //! `n − 1` periods of returns and, with a persistent forecast, are correlated
-//! about `ρ_f(k)·(1 − k/n)` at lag `k` (MODEL.md §3). Newey–West with only
-//! `n − 1` lags understates that variance badly, so the lag count here is
-//! `max(2n, ⌊4·(m/100)^{2/9}⌋)` for `m` dates (the second term is Newey and
-//! West's 1994 rule of thumb, which covers IC regimes on the lagged ICs), with
-//! Bartlett weights `1 − j/(ℓ+1)` (Newey and West, 1987), capped at `m − 1`.
+//! about `ρ_f(k)·(1 − k/n)` at lag `k` (MODEL.md §3); IC regimes (a persistent
+//! common shock) make even lag-1 ICs autocorrelated. Newey–West with only
+//! `n − 1` lags understates that variance badly, so the estimator here is
+//! Newey–West (Bartlett weights `1 − j/(ℓ+1)`; Newey and West, 1987) with
+//!
+//! `ℓ = min(m − 1, max(2n, ⌊1.1447·(α·m)^{1/3}⌋))`, `α = (2ρ̂/(1 − ρ̂²))²`,
+//!
+//! the second term being Andrews' (1991) AR(1) plug-in bandwidth with `ρ̂`
+//! the series' first-order autocorrelation (clamped to ±0.97).
 
-/// Lags used for horizon `n` (lag ICs use `n = 1`) over `m` dates.
-pub fn hac_lags(m: usize, n: usize) -> usize {
-    let rule = (4.0 * (m as f64 / 100.0).powf(2.0 / 9.0)).floor() as usize;
-    (2 * n).max(rule).min(m.saturating_sub(1))
+/// Largest first-order autocorrelation used in the bandwidth.
+const RHO_CAP: f64 = 0.97;
+
+/// Lags for horizon `n` (lagged ICs use `n = 1`) over the series `x`.
+pub fn hac_lags(x: &[f64], n: usize) -> usize {
+    let m = x.len();
+    if m < 3 {
+        return m.saturating_sub(1);
+    }
+    let mean = x.iter().sum::<f64>() / m as f64;
+    let (mut c0, mut c1) = (0.0, 0.0);
+    for (i, v) in x.iter().enumerate() {
+        c0 += (v - mean) * (v - mean);
+        if i > 0 {
+            c1 += (v - mean) * (x[i - 1] - mean);
+        }
+    }
+    let rho = if c0 > 0.0 { (c1 / c0).clamp(-RHO_CAP, RHO_CAP) } else { 0.0 };
+    let alpha = (2.0 * rho / (1.0 - rho * rho)).powi(2);
+    let andrews = (1.1447 * (alpha * m as f64).cbrt()).floor() as usize;
+    (2 * n).max(andrews).min(m - 1)
 }
 
 /// Mean of `x` and its Newey–West (Bartlett) standard error with `lags` lags.
@@ -49,9 +70,13 @@ mod tests {
     }
 
     #[test]
-    fn lag_rule_is_at_least_twice_the_horizon() {
-        assert_eq!(hac_lags(120, 12), 24);
-        assert_eq!(hac_lags(120, 1), 4);
-        assert_eq!(hac_lags(10, 12), 9);
+    fn lag_rule_is_at_least_twice_the_horizon_and_grows_with_persistence() {
+        let alternating: Vec<f64> = (0..120).map(|i| if i % 2 == 0 { 1.0 } else { -1.0 }).collect();
+        let trending: Vec<f64> = (0..120).map(|i| (i as f64 / 20.0).sin()).collect();
+        assert_eq!(hac_lags(&alternating[..10], 12), 9);
+        // ρ̂ = 0.97 (capped): α = (1.94/0.0591)² ≈ 1078, 1.1447·(1078·120)^{1/3} ≈ 57.9
+        assert_eq!(hac_lags(&trending, 1), 57);
+        let noise: Vec<f64> = (0..120).map(|i| ((i * 7919) % 13) as f64).collect();
+        assert_eq!(hac_lags(&noise, 12), 24);
     }
 }

@@ -72,7 +72,7 @@ impl PerDate {
         (1..=self.len())
             .map(|k| {
                 let s = self.series(k);
-                hac::mean_and_se(s, hac::hac_lags(s.len(), if overlap { k } else { 1 }))
+                hac::mean_and_se(s, hac::hac_lags(s, if overlap { k } else { 1 }))
             })
             .unzip()
     }
