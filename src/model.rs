@@ -12,6 +12,7 @@
 //! for every other lag. Loadings follow from the pooled curve by
 //! `b_k = (g_k − ρ·g_{k+1}) / sqrt(1 − ρ²)` (the sum telescopes).
 
+use crate::decay::DecayShape;
 use crate::error::ScenarioError;
 use crate::scenario::Scenario;
 
@@ -48,13 +49,61 @@ pub const TAIL: f64 = 1e-6;
 /// `g_k = sqrt(1−ρ²)·Σ_{j≥k} b_j·ρ^{j−k}` for `k = 1..=k_max` (MODEL.md §1).
 fn pooled_from_loadings(b: &[f64], rho: f64, k_max: usize) -> Vec<f64> {
     let c = (1.0 - rho * rho).sqrt();
-    let mut g = vec![0.0; k_max];
+    let mut g = vec![0.0; k_max.max(b.len())];
     let mut acc = 0.0;
-    for k in (1..=k_max).rev() {
+    for k in (1..=g.len()).rev() {
         acc = acc * rho + b.get(k - 1).copied().unwrap_or(0.0);
         g[k - 1] = c * acc;
     }
+    g.truncate(k_max);
     g
+}
+
+/// How the generator turns news into returns.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Kernel {
+    /// Finite loadings `b_1 … b_K'`: a banded convolution of past news.
+    Convolution,
+    /// `b_k = α·λ^{k−1} + β·ρ^{k−1}` for every `k ≥ 1`: exact first-order
+    /// recursions, no convolution and no pre-sample news. This is what the
+    /// exponential family calibrates to (`g_k = (IC_1·λ^{k−1} − ρ^{k−1}·E1)/E0`),
+    /// used when the curve's tail beyond `K` is below [`TAIL`].
+    TwoExponential {
+        /// `α = IC_1·(1 − ρλ) / (E0·sqrt(1−ρ²))`.
+        alpha: f64,
+        /// `λ = 2^{−1/h}`.
+        lambda: f64,
+        /// `β = −E1·sqrt(1−ρ²) / E0`.
+        beta: f64,
+    },
+}
+
+/// The exact two-exponential kernel of an exponential curve, if its tail
+/// beyond `k_max` (bounded by `|α|λ^K/(1−λ) + |β||ρ|^K/(1−|ρ|)`) is below [`TAIL`].
+fn two_exponential(shape: &DecayShape, rho: f64, (e0, e1): (f64, f64), k_max: usize) -> Option<Kernel> {
+    let &DecayShape::Exponential { ic1, half_life } = shape else { return None };
+    let lambda = (-1.0 / half_life).exp2();
+    let c = (1.0 - rho * rho).sqrt();
+    let (alpha, beta) = (ic1 * (1.0 - rho * lambda) / (e0 * c), -e1 * c / e0);
+    let k = k_max as i32;
+    let tail = alpha.abs() * lambda.powi(k) / (1.0 - lambda) + beta.abs() * rho.abs().powi(k) / (1.0 - rho.abs());
+    (tail <= TAIL).then_some(Kernel::TwoExponential { alpha, lambda, beta })
+}
+
+/// The loadings of a two-exponential kernel, up to where the rest is below 1e-16.
+fn two_exponential_loadings(alpha: f64, lambda: f64, beta: f64, rho: f64, k_max: usize) -> Vec<f64> {
+    let mut b = Vec::with_capacity(k_max);
+    let (mut lp, mut rp) = (1.0, 1.0);
+    while b.len() < 1_000_000 {
+        b.push(alpha * lp + beta * rp);
+        lp *= lambda;
+        rp *= rho;
+        let rest = alpha.abs() * lp / (1.0 - lambda) + beta.abs() * rp.abs() / (1.0 - rho.abs());
+        if b.len() >= k_max && rest < 1e-16 {
+            break;
+        }
+    }
+    b
 }
 
 /// The generator's parameters, derived from a validated scenario.
@@ -76,6 +125,8 @@ pub struct Model {
     pub idio_sd: f64,
     /// `E0` and `E1` at the calibrated `g_1`.
     pub shock_moments: (f64, f64),
+    /// How the generator applies the loadings.
+    pub kernel: Kernel,
 }
 
 impl Model {
@@ -113,24 +164,24 @@ impl Model {
         let scale = 1.0 / (1.0 - rho * rho).sqrt();
         let mut loadings: Vec<f64> =
             (0..k_max).map(|k| (pooled[k] - rho * pooled.get(k + 1).copied().unwrap_or(0.0)) * scale).collect();
-        // Cut the tail of loadings whose total size is below TAIL: every pooled
-        // correlation moves by at most sqrt(1−ρ²)·TAIL, far below any Monte Carlo
-        // error, and the generator's convolution gets shorter. The truth is then
-        // computed from the loadings actually used.
-        let mut tail = 0.0;
-        let mut used = loadings.len();
-        while used > 1 && tail + loadings[used - 1].abs() <= TAIL {
-            tail += loadings[used - 1].abs();
-            used -= 1;
-        }
-        let (pooled, moments) = if used < loadings.len() {
-            loadings.truncate(used);
-            let pooled = pooled_from_loadings(&loadings, rho, k_max);
-            let moments = shock_moments(v, pooled[0]);
-            (pooled, moments)
+        let kernel = two_exponential(s.decay.shape(), rho, moments, k_max).unwrap_or(Kernel::Convolution);
+        if let Kernel::TwoExponential { alpha, lambda, beta } = kernel {
+            loadings = two_exponential_loadings(alpha, lambda, beta, rho, k_max);
         } else {
-            (pooled, moments)
-        };
+            // Cut the tail of loadings whose total size is below TAIL: every pooled
+            // correlation moves by at most sqrt(1−ρ²)·TAIL, far below any Monte Carlo
+            // error, and the generator's convolution gets shorter.
+            let mut tail = 0.0;
+            let mut used = loadings.len();
+            while used > 1 && tail + loadings[used - 1].abs() <= TAIL {
+                tail += loadings[used - 1].abs();
+                used -= 1;
+            }
+            loadings.truncate(used);
+        }
+        // The truth is computed from the loadings actually used.
+        let pooled = pooled_from_loadings(&loadings, rho, k_max);
+        let moments = shock_moments(v, pooled[0]);
         let sum_b2: f64 = loadings.iter().map(|b| b * b).sum();
         let implied = 1.0 - sum_b2 - v * v;
         if implied.is_nan() || implied <= 1e-6 {
@@ -145,6 +196,7 @@ impl Model {
             loadings,
             idio_sd: implied.sqrt(),
             shock_moments: moments,
+            kernel,
         })
     }
 
@@ -153,9 +205,21 @@ impl Model {
         self.target.len()
     }
 
-    /// Loadings actually used by the generator (`≤ K`, the rest below [`TAIL`]).
+    /// Loadings actually used by the generator: `≤ K` for a convolution (the
+    /// rest below [`TAIL`]); for a recursion, as many as the truth needs.
     pub fn loadings_used(&self) -> usize {
         self.loadings.len()
+    }
+
+    /// One line saying how the generator applies the loadings.
+    pub fn kernel_note(&self) -> String {
+        match self.kernel {
+            Kernel::Convolution => format!("convolution of past news with {} loadings", self.loadings.len()),
+            Kernel::TwoExponential { .. } => {
+                "exact two-exponential recursion (exponential curve; its tail beyond the truncation is below 1e-6)"
+                    .into()
+            }
+        }
     }
 
     /// Pooled `g_k` for `k ≥ 1` (zero beyond `K`).
@@ -232,6 +296,23 @@ mod tests {
                 assert!((approx - m.target[k - 1]).abs() < tol, "v {v} lag {k}: {approx} vs {}", m.target[k - 1]);
             }
         }
+    }
+
+    #[test]
+    fn exponential_curves_use_the_exact_recursion_with_the_same_loadings() {
+        // Half-life 3 cut at K = 96: the tail beyond K is about 1e-11.
+        let s = scenario("forecast_autocorrelation = 0.7\nic_vol = 0.2\ntruncation = 96");
+        let m = Model::new(&s).unwrap();
+        let Kernel::TwoExponential { alpha, lambda, beta } = m.kernel else { panic!("{:?}", m.kernel) };
+        // The closed form must equal the telescoped loadings of the calibrated curve.
+        let (e0, e1) = m.shock_moments;
+        let g = |k: i32| (0.05 * lambda.powi(k - 1) - 0.7f64.powi(k - 1) * e1) / e0;
+        for k in 1..40 {
+            let b = (g(k) - 0.7 * g(k + 1)) / (1.0 - 0.49f64).sqrt();
+            assert!((alpha * lambda.powi(k - 1) + beta * 0.7f64.powi(k - 1) - b).abs() < 1e-15);
+        }
+        let long = scenario("forecast_autocorrelation = 0.7\ntruncation = 10");
+        assert_eq!(Model::new(&long).unwrap().kernel, Kernel::Convolution, "a visible cut keeps the convolution");
     }
 
     #[test]

@@ -29,9 +29,12 @@ pub fn path_rng(seed: u64, path: u64) -> PathRng {
 
 /// Fills `out` with standard normal draws (ziggurat, rand_distr).
 pub fn fill_normal(rng: &mut PathRng, out: &mut [f64]) {
+    // A local copy of the state lets it live in registers through the loop.
+    let mut local = rng.clone();
     for x in out {
-        *x = rng.sample(StandardNormal);
+        *x = local.sample(StandardNormal);
     }
+    *rng = local;
 }
 
 #[cfg(test)]

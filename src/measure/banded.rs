@@ -2,7 +2,7 @@
 //! blocked matrix products: every per-date IC needs one, and a blocked matrix
 //! multiply runs several times faster than separate dot products.
 
-/// Rows of `a` per matrix product.
+/// Rows of `a` per matrix product (16 measured fastest at `N = 1000`, `L = 24`).
 const BLOCK: usize = 16;
 
 /// `out[t·w + d] = ⟨a_t, b_{t+d}⟩` for `t < rows_a`, `d < w`, `t + d < rows_b`

@@ -16,6 +16,7 @@ mod panel;
 pub mod rank;
 pub mod rules;
 pub mod sign;
+mod sums;
 
 pub use panel::Panel;
 
@@ -96,17 +97,15 @@ pub struct Measurement {
     rdm: Vec<f64>,
     cross: Vec<f64>,
     gram: Vec<f64>,
+    row_mean: Vec<f64>,
     tmp: Vec<f64>,
     order: Vec<usize>,
 }
 
-/// Demeans each row of `src` (rows of `n`) into `dst`.
-fn demean_rows(src: &[f64], n: usize, dst: &mut Vec<f64>) {
-    dst.resize(src.len(), 0.0);
-    for (s, d) in src.chunks_exact(n).zip(dst.chunks_exact_mut(n)) {
-        let mean = s.iter().sum::<f64>() / n as f64;
-        d.iter_mut().zip(s).for_each(|(d, s)| *d = s - mean);
-    }
+/// Writes `src` minus its mean into `dst`.
+fn demean_into(src: &[f64], dst: &mut [f64]) {
+    let mean = sums::sum(src) / src.len() as f64;
+    dst.iter_mut().zip(src).for_each(|(d, s)| *d = s - mean);
 }
 
 impl Measurement {
@@ -125,26 +124,39 @@ impl Measurement {
     pub fn update(&mut self, panel: &Panel) {
         let (n, t, l) = (panel.assets, panel.dates, self.horizons);
         assert!(t >= l + 2, "panel has {t} dates, needs at least {}", l + 2);
-        demean_rows(&panel.forecasts, n, &mut self.fdm);
-        demean_rows(&panel.returns, n, &mut self.rdm);
-        let (fdm, rdm) = (std::mem::take(&mut self.fdm), std::mem::take(&mut self.rdm));
-        self.pearson_and_horizon(&fdm, &rdm, n, t);
+        self.pearson_and_horizon(panel, n, t);
         if self.with_rank {
             self.rank(panel, n, t);
         }
-        self.fdm = fdm;
-        self.rdm = rdm;
     }
 
-    fn pearson_and_horizon(&mut self, fdm: &[f64], rdm: &[f64], n: usize, t: usize) {
+    /// Pearson lagged and horizon ICs. Forecasts are demeaned; returns are
+    /// used as they are, since `⟨f̃, r⟩ = ⟨f̃, r̃⟩`, and the return Gram products
+    /// are centred afterwards, `⟨r̃_s, r̃_u⟩ = ⟨r_s, r_u⟩ − N·r̄_s·r̄_u` (exact up
+    /// to rounding while cross-sectional mean returns are not many times their
+    /// spread, as for residual returns; it saves a copy of the returns).
+    fn pearson_and_horizon(&mut self, panel: &Panel, n: usize, t: usize) {
         let l = self.horizons;
-        banded_products(fdm, rdm, n, l, &mut self.tmp, &mut self.cross);
-        banded_products(rdm, rdm, n, l, &mut self.tmp, &mut self.gram);
+        let returns = &panel.returns;
+        self.fdm.resize((t - 1) * n, 0.0);
+        for (date, f_out) in self.fdm.chunks_exact_mut(n).enumerate() {
+            demean_into(panel.forecast_row(date), f_out);
+        }
+        banded_products(&self.fdm, returns, n, l, &mut self.tmp, &mut self.cross);
+        banded_products(returns, returns, n, l, &mut self.tmp, &mut self.gram);
+        self.row_mean.clear();
+        self.row_mean.extend(returns.chunks_exact(n).map(|r| sums::sum(r) / n as f64));
+        for (s, row) in self.gram.chunks_exact_mut(l).enumerate() {
+            for (d, g) in row.iter_mut().enumerate().take(t - 1 - s) {
+                *g -= n as f64 * self.row_mean[s] * self.row_mean[s + d];
+            }
+        }
         self.lagged.reset(l, t);
         self.horizon.reset(l, t);
         let (cross, gram) = (&self.cross, &self.gram);
+        let fdm = &self.fdm;
         for date in 0..t - 1 {
-            let f_ss: f64 = fdm[date * n..(date + 1) * n].iter().map(|x| x * x).sum();
+            let f_ss = sums::sum_sq(&fdm[date * n..(date + 1) * n]);
             let (mut cov, mut var) = (0.0, 0.0);
             for k in 1..=l.min(t - 1 - date) {
                 let r = date + k - 1; // return row of lag k
@@ -176,11 +188,12 @@ impl Measurement {
         self.order = order;
         banded_products(&self.fdm, &self.rdm, n, l, &mut self.tmp, &mut self.cross);
         self.rank_lagged.reset(l, t);
+        self.row_mean.clear(); // here: each return row's sum of squared centred ranks
+        self.row_mean.extend(self.rdm.chunks_exact(n).map(sums::sum_sq));
         for date in 0..t - 1 {
-            let f_ss: f64 = self.fdm[date * n..(date + 1) * n].iter().map(|x| x * x).sum();
+            let f_ss = sums::sum_sq(&self.fdm[date * n..(date + 1) * n]);
             for k in 1..=l.min(t - 1 - date) {
-                let r = &self.rdm[(date + k - 1) * n..(date + k) * n];
-                let r_ss: f64 = r.iter().map(|x| x * x).sum();
+                let r_ss = self.row_mean[date + k - 1];
                 push(&mut self.rank_lagged, k, self.cross[date * l + k - 1] / (f_ss * r_ss).sqrt());
             }
         }

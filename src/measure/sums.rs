@@ -1,0 +1,46 @@
+//! Sums over a cross-section with eight independent accumulators: a plain
+//! `iter().sum()` is bound by the latency of one addition chain, while eight
+//! chains let the compiler vectorise (about 4× faster here, DEVELOPERS.md).
+//! The order of additions is fixed, so results are reproducible.
+
+/// `Σ x_i`.
+pub fn sum(x: &[f64]) -> f64 {
+    let mut acc = [0.0f64; 8];
+    let chunks = x.chunks_exact(8);
+    let rest = chunks.remainder();
+    for c in chunks {
+        for j in 0..8 {
+            acc[j] += c[j];
+        }
+    }
+    finish(acc) + rest.iter().sum::<f64>()
+}
+
+/// `Σ x_i²`.
+pub fn sum_sq(x: &[f64]) -> f64 {
+    let mut acc = [0.0f64; 8];
+    let chunks = x.chunks_exact(8);
+    let rest = chunks.remainder();
+    for c in chunks {
+        for j in 0..8 {
+            acc[j] += c[j] * c[j];
+        }
+    }
+    finish(acc) + rest.iter().map(|v| v * v).sum::<f64>()
+}
+
+fn finish(a: [f64; 8]) -> f64 {
+    ((a[0] + a[4]) + (a[1] + a[5])) + ((a[2] + a[6]) + (a[3] + a[7]))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn match_plain_sums_on_integers() {
+        let x: Vec<f64> = (0..37).map(|i| (i * 7 % 11) as f64 - 5.0).collect();
+        assert_eq!(sum(&x), x.iter().sum::<f64>());
+        assert_eq!(sum_sq(&x), x.iter().map(|v| v * v).sum::<f64>());
+    }
+}
