@@ -12,17 +12,20 @@ pub fn setup(paths: usize) -> Setup {
     Setup::new(s).unwrap()
 }
 
-/// Median seconds per call of `a` and of `b`, interleaved so that both see the
-/// same machine state; returns `(a, b)`.
-pub fn interleaved(reps: usize, mut a: impl FnMut(), mut b: impl FnMut()) -> (f64, f64) {
-    let (mut ta, mut tb) = (Vec::with_capacity(reps), Vec::with_capacity(reps));
-    for _ in 0..reps {
+/// Median seconds per call of `a` and of `b`, measured in alternating blocks
+/// of ten calls so that both see the same machine state while each runs warm
+/// (a single call of one right after the other would charge the second with
+/// the first's cache misses); returns `(a, b)`.
+pub fn interleaved(blocks: usize, mut a: impl FnMut(), mut b: impl FnMut()) -> (f64, f64) {
+    const CALLS: u32 = 10;
+    let (mut ta, mut tb) = (Vec::with_capacity(blocks), Vec::with_capacity(blocks));
+    for _ in 0..blocks {
         let t = Instant::now();
-        a();
-        ta.push(t.elapsed().as_secs_f64());
+        (0..CALLS).for_each(|_| a());
+        ta.push(t.elapsed().as_secs_f64() / f64::from(CALLS));
         let t = Instant::now();
-        b();
-        tb.push(t.elapsed().as_secs_f64());
+        (0..CALLS).for_each(|_| b());
+        tb.push(t.elapsed().as_secs_f64() / f64::from(CALLS));
     }
     let median = |v: &mut Vec<f64>| {
         v.sort_by(f64::total_cmp);
