@@ -44,8 +44,10 @@ pub struct Truth {
     pub near_best_tolerance: f64,
     /// Lag `K` beyond which the IC is zero.
     pub truncation: usize,
-    /// Loadings the generator uses (the rest of the `K` sum to under 1e-6).
+    /// Loadings the truth sums over (a convolution's cut tail sums to under 1e-6).
     pub loadings_used: usize,
+    /// How the generator applies the loadings.
+    pub generator: String,
 }
 
 /// 1-based index of the first maximum.
@@ -95,6 +97,7 @@ impl Truth {
             near_best_tolerance: tolerance,
             truncation: m.truncation(),
             loadings_used: m.loadings_used(),
+            generator: m.kernel_note(),
         })
     }
 
