@@ -7,9 +7,10 @@
 
 use crate::error::ScenarioError;
 
-/// One decay-curve family with its parameters (validated).
-#[derive(Debug, Clone, PartialEq, serde::Serialize)]
-#[serde(tag = "family", rename_all = "snake_case")]
+/// One decay-curve family with its parameters, as written in a scenario's
+/// `[decay]` table (`family = "..."`). [`DecayCurve::new`] checks the values.
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
+#[serde(tag = "family", rename_all = "snake_case", deny_unknown_fields)]
 pub enum DecayShape {
     /// `IC_k = ic1 · 2^{−(k−1)/h}`.
     Exponential {
@@ -31,7 +32,8 @@ pub enum DecayShape {
         peak: f64,
         /// Lag `p` of the peak.
         peak_lag: f64,
-        /// Shape `a` (larger is narrower).
+        /// Shape `a` (larger is narrower; default 2).
+        #[serde(default = "default_hump_shape")]
         shape: f64,
     },
     /// `IC_k = ic1 · k^{−a}`.
@@ -62,6 +64,10 @@ pub struct DecayCurve {
     shape: DecayShape,
 }
 
+fn default_hump_shape() -> f64 {
+    2.0
+}
+
 fn check_ic(key: &str, v: f64) -> Result<f64, ScenarioError> {
     if v.is_finite() && v > -1.0 && v < 1.0 { Ok(v) } else { Err(out_of_range(key, v, "inside (-1, 1)")) }
 }
@@ -75,6 +81,21 @@ pub(crate) fn out_of_range(key: &str, v: impl std::fmt::Display, allowed: &str) 
 }
 
 impl DecayCurve {
+    /// Checks a shape's parameters with the constructor of its family.
+    ///
+    /// # Errors
+    /// The first parameter out of range, with its key path.
+    pub fn new(shape: DecayShape) -> Result<Self, ScenarioError> {
+        match shape {
+            DecayShape::Exponential { ic1, half_life } => Self::exponential(ic1, half_life),
+            DecayShape::Linear { ic1, zero_at } => Self::linear(ic1, zero_at),
+            DecayShape::Hump { peak, peak_lag, shape } => Self::hump(peak, peak_lag, shape),
+            DecayShape::Power { ic1, exponent } => Self::power(ic1, exponent),
+            DecayShape::Step { ic, length } => Self::step(ic, length),
+            DecayShape::Table { values } => Self::table(values),
+        }
+    }
+
     /// Exponential decay with half-life `h` periods.
     ///
     /// # Errors

@@ -5,28 +5,26 @@
 
 /// `Σ x_i`.
 pub fn sum(x: &[f64]) -> f64 {
-    let mut acc = [0.0f64; 8];
-    let chunks = x.chunks_exact(8);
-    let rest = chunks.remainder();
-    for c in chunks {
-        for j in 0..8 {
-            acc[j] += c[j];
-        }
-    }
-    finish(acc) + rest.iter().sum::<f64>()
+    sum_of(x, |v| v)
 }
 
 /// `Σ x_i²`.
 pub fn sum_sq(x: &[f64]) -> f64 {
+    sum_of(x, |v| v * v)
+}
+
+/// `Σ g(x_i)` in eight interleaved chains.
+#[inline(always)]
+fn sum_of(x: &[f64], g: impl Fn(f64) -> f64) -> f64 {
     let mut acc = [0.0f64; 8];
     let chunks = x.chunks_exact(8);
     let rest = chunks.remainder();
     for c in chunks {
         for j in 0..8 {
-            acc[j] += c[j] * c[j];
+            acc[j] += g(c[j]);
         }
     }
-    finish(acc) + rest.iter().map(|v| v * v).sum::<f64>()
+    finish(acc) + rest.iter().map(|&v| g(v)).sum::<f64>()
 }
 
 fn finish(a: [f64; 8]) -> f64 {

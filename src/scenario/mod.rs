@@ -5,7 +5,7 @@ mod locate;
 pub mod presets;
 mod raw;
 
-pub use raw::{RawDecay, RawScenario, RawTails};
+pub use raw::{RawScenario, RawTails};
 
 use crate::decay::{DecayCurve, out_of_range};
 use crate::error::{InputError, ScenarioError};
@@ -156,14 +156,7 @@ impl Scenario {
         if !(raw.near_best_tolerance.is_finite() && (0.0..1.0).contains(&raw.near_best_tolerance)) {
             return Err(out_of_range("near_best_tolerance", raw.near_best_tolerance, "in [0, 1)"));
         }
-        let decay = match raw.decay {
-            RawDecay::Exponential { ic1, half_life } => DecayCurve::exponential(ic1, half_life),
-            RawDecay::Linear { ic1, zero_at } => DecayCurve::linear(ic1, zero_at),
-            RawDecay::Hump { peak, peak_lag, shape } => DecayCurve::hump(peak, peak_lag, shape),
-            RawDecay::Power { ic1, exponent } => DecayCurve::power(ic1, exponent),
-            RawDecay::Step { ic, length } => DecayCurve::step(ic, length),
-            RawDecay::Table { ref values } => DecayCurve::table(values.clone()),
-        }?;
+        let decay = DecayCurve::new(raw.decay.clone())?;
         let truncation = match raw.truncation {
             Some(0) => return Err(out_of_range("truncation", 0, "at least 1")),
             Some(k) if k > 20_000 => return Err(out_of_range("truncation", k, "at most 20000")),

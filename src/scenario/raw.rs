@@ -1,6 +1,7 @@
 //! The scenario file as written: serde only parses, with `deny_unknown_fields`
 //! so that a misspelt key is an error with its line, not a silent default.
 
+use crate::decay::DecayShape;
 use serde::{Deserialize, Serialize};
 
 /// A scenario file (TOML). Every field but `decay` has a default.
@@ -53,57 +54,8 @@ pub struct RawScenario {
     /// Also measure rank (Spearman) lagged ICs in the study (slower).
     #[serde(default)]
     pub rank_ic: bool,
-    /// The lagged-IC decay curve (expected per-date IC).
-    pub decay: RawDecay,
-}
-
-/// The decay family and its parameters (`family = "..."`).
-#[derive(Debug, Clone, Deserialize, Serialize)]
-#[serde(tag = "family", rename_all = "snake_case", deny_unknown_fields)]
-pub enum RawDecay {
-    /// `IC_k = ic1 · 2^{−(k−1)/half_life}`.
-    Exponential {
-        /// IC at lag 1.
-        ic1: f64,
-        /// Half-life in periods.
-        half_life: f64,
-    },
-    /// `IC_k = ic1 · (zero_at − k)/(zero_at − 1)`, zero from `zero_at` on.
-    Linear {
-        /// IC at lag 1.
-        ic1: f64,
-        /// Lag at which the IC reaches zero.
-        zero_at: f64,
-    },
-    /// `IC_k = peak · (k/peak_lag)^shape · exp(shape·(1 − k/peak_lag))`.
-    Hump {
-        /// Highest IC.
-        peak: f64,
-        /// Lag of the highest IC.
-        peak_lag: f64,
-        /// Shape (default 2).
-        #[serde(default = "defaults::hump_shape")]
-        shape: f64,
-    },
-    /// `IC_k = ic1 · k^{−exponent}`.
-    Power {
-        /// IC at lag 1.
-        ic1: f64,
-        /// Exponent.
-        exponent: f64,
-    },
-    /// `IC_k = ic` for `k ≤ length`, zero beyond.
-    Step {
-        /// IC on each lag of the step.
-        ic: f64,
-        /// Number of lags.
-        length: usize,
-    },
-    /// Explicit values, lag 1 first.
-    Table {
-        /// The values.
-        values: Vec<f64>,
-    },
+    /// The lagged-IC decay curve (expected per-date IC), checked in validation.
+    pub decay: DecayShape,
 }
 
 /// Idiosyncratic noise (`family = "normal"` or `"student_t"` with `dof`).
@@ -144,8 +96,5 @@ mod defaults {
     }
     pub fn near_best_tolerance() -> f64 {
         0.01
-    }
-    pub fn hump_shape() -> f64 {
-        2.0
     }
 }
