@@ -1,6 +1,6 @@
 //! The progress bar: on stderr, hidden when stderr is not a terminal or with `--quiet`.
 
-use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
+use indicatif::{ProgressBar, ProgressDrawTarget, ProgressState, ProgressStyle};
 use std::io::IsTerminal;
 
 /// A bar over `total` paths.
@@ -10,11 +10,12 @@ pub fn bar(total: usize, quiet: bool) -> ProgressBar {
     }
     let pb = ProgressBar::with_draw_target(Some(total as u64), ProgressDrawTarget::stderr());
     pb.set_style(
-        ProgressStyle::with_template(
-            "{spinner} paths {pos}/{len} [{bar:30}] {per_sec} · {elapsed} elapsed · {eta} left",
-        )
-        .expect("valid template")
-        .progress_chars("=> "),
+        ProgressStyle::with_template("{spinner} {pos}/{len} paths [{bar:25}] {rate} · {elapsed} · {eta} left")
+            .expect("valid template")
+            .with_key("rate", |s: &ProgressState, w: &mut dyn std::fmt::Write| {
+                let _ = write!(w, "{:.0} paths/s", s.per_sec());
+            })
+            .progress_chars("=> "),
     );
     pb
 }
