@@ -105,6 +105,14 @@ fn other_ranges_are_checked_too() {
 }
 
 #[test]
+fn sizes_that_would_exhaust_memory_are_refused() {
+    let err = fails(&format!("assets = 1000000\nhistory = 1000\n{DECAY}"), &[]);
+    has(&err, &["line 1", "`assets` must be such that assets × history ≤ 50000000"]);
+    let err = fails(DECAY, &["--paths", "100000000"]);
+    has(&err, &["`paths` must be such that paths × horizons ≤ 100000000"]);
+}
+
+#[test]
 fn a_missing_file_and_bad_options_exit_with_two() {
     let a = Command::cargo_bin("lagfold").unwrap().args(["run", "no-such-file.toml"]).assert().code(2);
     assert!(String::from_utf8_lossy(&a.get_output().stderr).contains("cannot read no-such-file.toml"));

@@ -11,6 +11,11 @@ use crate::decay::{DecayCurve, out_of_range};
 use crate::error::{InputError, ScenarioError};
 use serde::Serialize;
 
+/// Largest `assets × history` (a history takes 16 bytes per asset-date per worker).
+pub const MAX_ASSET_DATES: usize = 50_000_000;
+/// Largest `paths × horizons` (the study keeps two curves per path).
+pub const MAX_PATH_HORIZONS: usize = 100_000_000;
+
 /// Idiosyncratic noise law (validated).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 #[serde(tag = "family", rename_all = "snake_case")]
@@ -132,6 +137,21 @@ impl Scenario {
                 "history",
                 raw.history,
                 &format!("at least horizons + 2 = {} (each horizon needs two dates)", raw.horizons + 2),
+            ));
+        }
+        // Memory guards: a history is held twice per worker, every path's curves once.
+        if raw.assets.saturating_mul(raw.history) > MAX_ASSET_DATES {
+            return Err(out_of_range(
+                "assets",
+                raw.assets,
+                &format!("such that assets × history ≤ {MAX_ASSET_DATES} (history is {})", raw.history),
+            ));
+        }
+        if raw.paths.saturating_mul(raw.horizons) > MAX_PATH_HORIZONS {
+            return Err(out_of_range(
+                "paths",
+                raw.paths,
+                &format!("such that paths × horizons ≤ {MAX_PATH_HORIZONS} (horizons is {})", raw.horizons),
             ));
         }
         let periods_per_year = positive("periods_per_year", raw.periods_per_year)?;
