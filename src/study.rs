@@ -9,10 +9,12 @@ use crate::measure::Measurement;
 use crate::measure::fit::Family;
 use crate::measure::rules::{self, Choices, Rule};
 use crate::model::Model;
+use crate::portfolio::{BookBuilder, BookSums, PortfolioTruth};
 use crate::rng::path_rng;
 use crate::scenario::Scenario;
 use crate::stats::{BAND_LEVELS, Moments, Proportion, quantile_sorted};
 use crate::truth::Truth;
+use crate::truth::{argmax1, near_set};
 use rayon::prelude::*;
 use serde::Serialize;
 use std::collections::BTreeMap;
@@ -57,6 +59,8 @@ pub struct PathOutcome {
     pub rank_lagged: Option<Vec<f64>>,
     /// Each rule's choice.
     pub choices: Choices,
+    /// The linear book's sums per holding length.
+    pub books: Vec<BookSums>,
 }
 
 /// Every path's outcome, stored flat and in path order (one allocation per
@@ -68,6 +72,7 @@ pub struct Outcomes {
     horizon: Vec<f64>,
     rank_lagged: Vec<f64>,
     choices: Vec<Choices>,
+    books: Vec<BookSums>,
 }
 
 impl Outcomes {
@@ -78,6 +83,7 @@ impl Outcomes {
             horizon: Vec::with_capacity(paths * l),
             rank_lagged: Vec::with_capacity(if rank { paths * l } else { 0 }),
             choices: Vec::with_capacity(paths),
+            books: Vec::with_capacity(paths * l),
         }
     }
 
@@ -88,6 +94,12 @@ impl Outcomes {
             self.rank_lagged.extend_from_slice(r);
         }
         self.choices.push(o.choices);
+        self.books.extend_from_slice(&o.books);
+    }
+
+    /// The linear book's sums of path `p`, per holding length.
+    pub fn books(&self, p: usize) -> &[BookSums] {
+        &self.books[p * self.len..(p + 1) * self.len]
     }
 
     /// Number of paths.
@@ -121,12 +133,13 @@ impl Outcomes {
 pub struct Worker {
     ws: Workspace,
     meas: Measurement,
+    books: BookBuilder,
 }
 
 impl Worker {
     /// Buffers for one scenario.
     pub fn new(s: &Scenario) -> Self {
-        Self { ws: Workspace::default(), meas: Measurement::new(s.horizons, s.rank_ic) }
+        Self { ws: Workspace::default(), meas: Measurement::new(s.horizons, s.rank_ic), books: BookBuilder::default() }
     }
 
     /// Simulates and measures path `path`.
@@ -138,7 +151,8 @@ impl Worker {
         let horizon = self.meas.horizon.means();
         let choices = rules::choose(&lagged, &lagged_se, &horizon);
         let rank_lagged = setup.scenario.rank_ic.then(|| self.meas.rank_lagged.means());
-        PathOutcome { lagged, horizon, rank_lagged, choices }
+        let books = self.books.build(&self.ws.panel, &self.meas, setup.scenario.residual_vol, None).linear;
+        PathOutcome { lagged, horizon, rank_lagged, choices, books }
     }
 }
 
@@ -177,6 +191,13 @@ pub struct RuleStats {
     pub choice_counts: Vec<u64>,
     /// Quantiles 5, 25, 50, 75, 95 % of the chosen horizon.
     pub choice_quantiles: Vec<f64>,
+    /// Net-IR rule only: mean regret in basis points a year (IR given up times
+    /// the best book's annual volatility).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub regret_bps_year_mean: Option<f64>,
+    /// Its Monte Carlo standard error.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub regret_bps_year_mean_se: Option<f64>,
 }
 
 /// Mean and quantile bands of a measured curve across paths.
@@ -199,6 +220,8 @@ pub struct RulesOut {
     pub formula: RuleStats,
     /// Optimum of the fitted decay curve.
     pub fitted: RuleStats,
+    /// Holding length with the best measured net IR of the linear book.
+    pub net_ir: RuleStats,
 }
 
 /// The whole study.
@@ -220,41 +243,106 @@ pub struct StudyResult {
     pub horizon_ic: CurveStats,
     /// Measured mean rank lagged IC (when `rank_ic`).
     pub rank_lagged_ic: Option<CurveStats>,
+    /// One-way cost of the net figures, basis points.
+    pub cost_bps: f64,
+    /// Each history's measured annualised net IR of the linear book per holding length.
+    pub net_ir: CurveStats,
+    /// The net optimum at each cost of `--cost-bps` (empty without it).
+    pub cost_sweep: Vec<SweepRow>,
 }
 
 /// Runs every path on `threads` threads, reporting paths done to `progress`.
-pub fn run(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> StudyResult {
+/// `sweep` lists one-way costs (basis points) at which the net optimum is
+/// also reported (truth from the reference sums, measured from each path's).
+pub fn run(
+    setup: &Setup,
+    portfolio: &PortfolioTruth,
+    sweep: &[f64],
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> StudyResult {
     let outcomes = simulate_all(setup, threads, progress);
-    aggregate(setup, &outcomes)
+    let mut result = aggregate(setup, portfolio, &outcomes);
+    result.cost_sweep = sweep.iter().map(|&bps| sweep_row(setup, portfolio, bps, &outcomes)).collect();
+    result
 }
 
-/// Simulates every path; the outcomes come back in path order.
-pub fn simulate_all(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> Outcomes {
+/// The true and the measured net optimum at one cost.
+#[derive(Debug, Clone, Serialize)]
+pub struct SweepRow {
+    /// One-way cost, basis points.
+    pub cost_bps: f64,
+    /// True best holding length (1-based).
+    pub true_best_holding: usize,
+    /// True annualised net IR there.
+    pub true_net_ir: f64,
+    /// Its Monte Carlo standard error.
+    pub true_net_ir_se: f64,
+    /// Holding lengths within the tolerance of the best.
+    pub true_near_best: Vec<usize>,
+    /// The net-IR rule at this cost.
+    pub measured: RuleStats,
+}
+
+fn sweep_row(setup: &Setup, portfolio: &PortfolioTruth, bps: f64, outcomes: &Outcomes) -> SweepRow {
+    let (c, ppy) = (bps * 1e-4, setup.scenario.periods_per_year);
+    let (ir, se) = crate::portfolio::truth::net_ir_at(&portfolio.linear_sums, &portfolio.linear_paths, c, ppy);
+    let net_vol: Vec<f64> = portfolio.linear_sums.iter().map(|s| s.net_mean_sd(c).1).collect();
+    let best = argmax1(&ir);
+    SweepRow {
+        cost_bps: bps,
+        true_best_holding: best,
+        true_net_ir: ir[best - 1],
+        true_net_ir_se: se[best - 1],
+        true_near_best: near_set(&ir, setup.scenario.near_best_tolerance),
+        measured: net_ir_rule(setup, &ir, &net_vol, c, outcomes),
+    }
+}
+
+/// Runs `run(worker, p)` for paths `0..paths` on `threads` threads and hands
+/// the results to `sink` in path order. Paths go in chunks of [`CHUNK`], each
+/// cut into `2 × threads` contiguous runs, one per long-lived worker, so the
+/// order of results never depends on scheduling.
+pub fn run_in_order<W: Send, T: Send>(
+    threads: usize,
+    paths: usize,
+    make_worker: impl Fn() -> W,
+    run: impl Fn(&mut W, u64) -> T + Sync,
+    mut sink: impl FnMut(T),
+    progress: &(dyn Fn(usize) + Sync),
+) {
     let pool = rayon::ThreadPoolBuilder::new().num_threads(threads.max(1)).build().expect("thread pool");
-    let paths = setup.scenario.paths;
-    // Each chunk is cut into `parts` contiguous runs of paths, one per worker;
-    // workers keep their buffers from chunk to chunk.
     let parts = 2 * threads.max(1);
-    let mut workers: Vec<Worker> = (0..parts).map(|_| Worker::new(&setup.scenario)).collect();
-    let mut out = Outcomes::with_capacity(paths, setup.scenario.horizons, setup.scenario.rank_ic);
-    pool.install(|| {
-        let mut start = 0;
-        while start < paths {
-            let end = (start + CHUNK).min(paths);
-            let pieces: Vec<Vec<PathOutcome>> = workers
+    let mut workers: Vec<W> = (0..parts).map(|_| make_worker()).collect();
+    let mut start = 0;
+    while start < paths {
+        let end = (start + CHUNK).min(paths);
+        let pieces: Vec<Vec<T>> = pool.install(|| {
+            workers
                 .par_iter_mut()
                 .enumerate()
                 .map(|(j, w)| {
                     let (a, b) = (start + (end - start) * j / parts, start + (end - start) * (j + 1) / parts);
-                    (a..b).map(|p| w.run_path(setup, p as u64)).collect()
+                    (a..b).map(|p| run(w, p as u64)).collect()
                 })
-                .collect();
-            pieces.into_iter().flatten().for_each(|o| out.push(o));
-            start = end;
-            progress(start);
-        }
-    });
+                .collect()
+        });
+        pieces.into_iter().flatten().for_each(&mut sink);
+        start = end;
+        progress(start);
+    }
+}
+
+/// Simulates every path; the outcomes come back in path order.
+pub fn simulate_all(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> Outcomes {
+    let s = &setup.scenario;
+    let mut out = Outcomes::with_capacity(s.paths, s.horizons, s.rank_ic);
+    run_in_order(threads, s.paths, || Worker::new(s), |w, p| w.run_path(setup, p), |o| out.push(o), progress);
     out
+}
+
+fn curve_stats_owned(rows: Vec<Vec<f64>>, len: usize) -> CurveStats {
+    curve_stats(|p| rows[p].as_slice(), rows.len(), len)
 }
 
 fn curve_stats<'a>(rows: impl Fn(usize) -> &'a [f64], paths: usize, len: usize) -> CurveStats {
@@ -274,33 +362,52 @@ fn curve_stats<'a>(rows: impl Fn(usize) -> &'a [f64], paths: usize, len: usize) 
     }
 }
 
-fn rule_stats(rule: Rule, idx: usize, setup: &Setup, outcomes: &Outcomes) -> RuleStats {
-    let truth = &setup.truth;
-    let (best, l, p) = (truth.best_horizon, setup.scenario.horizons, outcomes.paths() as u64);
-    let h_best = truth.h(best);
+/// What a rule is judged against: the true value of each choice (1-based),
+/// the best choice and the near-best set.
+pub struct Target<'a> {
+    /// True value per choice, `[n − 1]`.
+    pub truth: &'a [f64],
+    /// The best choice.
+    pub best: usize,
+    /// Choices within the tolerance of the best.
+    pub near: &'a [usize],
+}
+
+/// Hit rates, regret and the distribution of `choice(p)` over all paths;
+/// `measured(p, n)` is path `p`'s own estimate of the value of choice `n`
+/// (for the winner's curse).
+pub fn rule_stats(
+    description: &str,
+    target: &Target,
+    paths: usize,
+    choice: impl Fn(usize) -> usize,
+    measured: impl Fn(usize, usize) -> f64,
+) -> RuleStats {
+    let (best, l, p) = (target.best, target.truth.len(), paths as u64);
+    let v_best = target.truth[best - 1];
     let mut counts = vec![0u64; l];
     let (mut hit, mut near, mut in_set) = (0u64, 0u64, 0u64);
     let (mut regret, mut rel, mut curse) = (Moments::default(), Moments::default(), Moments::default());
-    let mut rels = Vec::with_capacity(outcomes.paths());
-    let mut chosen = Vec::with_capacity(outcomes.paths());
-    for path in 0..outcomes.paths() {
-        let n = outcomes.choices(path).horizon[idx];
+    let mut rels = Vec::with_capacity(paths);
+    let mut chosen = Vec::with_capacity(paths);
+    for path in 0..paths {
+        let n = choice(path);
         counts[n - 1] += 1;
         hit += u64::from(n == best);
         near += u64::from(n.abs_diff(best) <= 1);
-        in_set += u64::from(truth.is_near_best(n));
-        let r = h_best - truth.h(n);
+        in_set += u64::from(target.near.contains(&n));
+        let r = v_best - target.truth[n - 1];
         regret.push(r);
-        rel.push(r / h_best);
-        rels.push(r / h_best);
+        rel.push(r / v_best);
+        rels.push(r / v_best);
         chosen.push(n as f64);
-        curse.push(outcomes.horizon(path)[n - 1] - truth.h(n));
+        curse.push(measured(path, n) - target.truth[n - 1]);
     }
     rels.sort_by(f64::total_cmp);
     chosen.sort_by(f64::total_cmp);
     let (h, nh, nb) = (Proportion::new(hit, p), Proportion::new(near, p), Proportion::new(in_set, p));
     RuleStats {
-        description: rule.describe().to_string(),
+        description: description.to_string(),
         hit_rate: h.rate,
         hit_rate_se: h.se,
         near_hit_rate: nh.rate,
@@ -316,13 +423,50 @@ fn rule_stats(rule: Rule, idx: usize, setup: &Setup, outcomes: &Outcomes) -> Rul
         winners_curse_mean_se: curse.se(),
         choice_counts: counts,
         choice_quantiles: BAND_LEVELS.iter().map(|&q| quantile_sorted(&chosen, q)).collect(),
+        regret_bps_year_mean: None,
+        regret_bps_year_mean_se: None,
     }
 }
 
+/// The net-IR rule at one-way cost `c`: each path's best holding length by
+/// its own measured net IR, judged against the true net IR. The regret in
+/// basis points a year is the IR given up times the annual volatility of the
+/// best book: the return lost at the best book's risk.
+pub fn net_ir_rule(setup: &Setup, truth_ir: &[f64], truth_net_vol: &[f64], c: f64, outcomes: &Outcomes) -> RuleStats {
+    let ppy = setup.scenario.periods_per_year;
+    let near = near_set(truth_ir, setup.scenario.near_best_tolerance);
+    let target = Target { truth: truth_ir, best: argmax1(truth_ir), near: &near };
+    let measured_ir = |p: usize| outcomes.books(p).iter().map(|b| b.ir(c, ppy)).collect::<Vec<_>>();
+    let choice = |p: usize| argmax1(&measured_ir(p));
+    let mut stats = rule_stats(Rule::NetIr.describe(), &target, outcomes.paths(), choice, |p, n| {
+        outcomes.books(p)[n - 1].ir(c, ppy)
+    });
+    let annual_vol_bps = truth_net_vol[target.best - 1] * ppy.sqrt() * 1e4;
+    let mut bps = Moments::default();
+    for p in 0..outcomes.paths() {
+        bps.push((truth_ir[target.best - 1] - truth_ir[choice(p) - 1]) * annual_vol_bps);
+    }
+    stats.regret_bps_year_mean = Some(bps.mean());
+    stats.regret_bps_year_mean_se = bps.se();
+    stats
+}
+
 /// Folds path outcomes (in path order) into the study's results.
-pub fn aggregate(setup: &Setup, outcomes: &Outcomes) -> StudyResult {
+pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes) -> StudyResult {
     let l = setup.scenario.horizons;
-    let stats = |r: Rule, i| rule_stats(r, i, setup, outcomes);
+    let t = &setup.truth;
+    let target = Target { truth: &t.horizon_ic, best: t.best_horizon, near: &t.near_best };
+    let stats = |r: Rule, i: usize| {
+        rule_stats(
+            r.describe(),
+            &target,
+            outcomes.paths(),
+            |p| outcomes.choices(p).horizon[i],
+            |p, n| outcomes.horizon(p)[n - 1],
+        )
+    };
+    let c = portfolio.cost_bps * 1e-4;
+    let ppy = setup.scenario.periods_per_year;
     let mut fitted_families: BTreeMap<String, u64> = Family::ALL.iter().map(|f| (f.name().to_string(), 0)).collect();
     for p in 0..outcomes.paths() {
         *fitted_families.entry(outcomes.choices(p).family.name().to_string()).or_default() += 1;
@@ -331,7 +475,18 @@ pub fn aggregate(setup: &Setup, outcomes: &Outcomes) -> StudyResult {
         paths: outcomes.paths(),
         seed: setup.scenario.seed,
         se_method: "Newey-West (Bartlett) with max(2n, floor(4(m/100)^(2/9))) lags for horizon n over m dates; lagged ICs use n = 1".into(),
-        rules: RulesOut { peak: stats(Rule::Peak, 0), formula: stats(Rule::Formula, 1), fitted: stats(Rule::Fitted, 2) },
+        rules: RulesOut {
+            peak: stats(Rule::Peak, 0),
+            formula: stats(Rule::Formula, 1),
+            fitted: stats(Rule::Fitted, 2),
+            net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear.net_vol, c, outcomes),
+        },
+        cost_bps: portfolio.cost_bps,
+        net_ir: curve_stats_owned(
+            (0..outcomes.paths()).map(|p| outcomes.books(p).iter().map(|b| b.ir(c, ppy)).collect()).collect(),
+            l,
+        ),
+        cost_sweep: Vec::new(),
         fitted_families,
         lagged_ic: curve_stats(|p| outcomes.lagged(p), outcomes.paths(), l),
         horizon_ic: curve_stats(|p| outcomes.horizon(p), outcomes.paths(), l),

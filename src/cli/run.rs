@@ -2,6 +2,7 @@
 //! truth → run the study → write outputs → print the summary.
 
 use super::{Failure, print, progress};
+use crate::portfolio::PortfolioTruth;
 use crate::report::{self, Summary};
 use crate::scenario::{self, Overrides, Scenario, presets};
 use crate::study::{self, Setup};
@@ -28,6 +29,10 @@ pub struct StudyArgs {
     /// Worker threads (default: all cores); results do not depend on it.
     #[arg(long, value_parser = clap::value_parser!(u16).range(1..=1024))]
     pub threads: Option<u16>,
+    /// One-way costs in basis points, comma-separated: one value replaces the
+    /// scenario's cost; several add a table of the net optimum at each.
+    #[arg(long, value_delimiter = ',', num_args = 1..)]
+    pub cost_bps: Vec<f64>,
     /// Output folder (default: lagfold-out/<scenario name>).
     #[arg(long)]
     pub out: Option<PathBuf>,
@@ -85,23 +90,39 @@ pub fn demo(a: &StudyArgs) -> Result<(), Failure> {
     execute(scenario, a, &origin)
 }
 
-fn execute(scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
+fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
+    for (i, &c) in a.cost_bps.iter().enumerate() {
+        scenario::check_cost_bps(&format!("--cost-bps value {}", i + 1), c).map_err(Failure::input)?;
+    }
+    if let [one] = a.cost_bps[..] {
+        scenario.portfolio.cost_bps = one;
+    }
     let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(&scenario.name));
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
     let threads = a.threads.map_or_else(|| std::thread::available_parallelism().map_or(1, |n| n.get()), usize::from);
-    let bar = progress::bar(setup.scenario.paths, a.quiet);
-    let result = study::run(&setup, threads, &|done| bar.set_position(done as u64));
+    let s = &setup.scenario;
+    let bar = progress::bar(s.portfolio.reference_paths, a.quiet, "reference");
+    let portfolio = PortfolioTruth::compute(&setup, threads, &|done| bar.set_position(done as u64));
     bar.finish_and_clear();
-    let summary = Summary::new(&setup, &result);
-    let files = [
+    let bar = progress::bar(s.paths, a.quiet, "study");
+    let sweep = if a.cost_bps.len() > 1 { a.cost_bps.clone() } else { Vec::new() };
+    let result = study::run(&setup, &portfolio, &sweep, threads, &|done| bar.set_position(done as u64));
+    bar.finish_and_clear();
+    let summary = Summary::new(&setup, &portfolio, &result);
+    let mut files = vec![
         ("summary.json", report::summary_json(&summary)),
         ("curves.csv", report::curves_csv(&setup, &result)),
         ("choices.csv", report::choices_csv(&setup, &result)),
+        ("holding.csv", report::holding_csv(&portfolio, &result)),
     ];
+    if !sweep.is_empty() {
+        files.push(("cost_sweep.csv", report::cost_sweep_csv(&result)));
+    }
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.quiet {
-        let mut text = report::terminal_summary(&setup, &result);
-        text.push_str(&format!("\nOutputs: {} (summary.json, curves.csv, choices.csv)\n", out_dir.display()));
+        let mut text = report::terminal_summary(&setup, &portfolio, &result);
+        let names: Vec<&str> = files.iter().map(|(n, _)| *n).collect();
+        text.push_str(&format!("\nOutputs: {} ({})\n", out_dir.display(), names.join(", ")));
         print(&text)?;
     }
     Ok(())

@@ -16,11 +16,11 @@ mod panel;
 pub mod rank;
 pub mod rules;
 pub mod sign;
-mod sums;
+pub(crate) mod sums;
 
 pub use panel::Panel;
 
-use banded::banded_products;
+pub(crate) use banded::banded_products;
 
 /// Per-date series for each lag (or horizon), one row of `dates` per lag.
 #[derive(Debug, Clone, Default)]
@@ -94,7 +94,8 @@ pub struct Measurement {
     /// Lagged rank ICs (empty unless asked for).
     pub rank_lagged: PerDate,
     fdm: Vec<f64>,
-    rdm: Vec<f64>,
+    rank_f: Vec<f64>,
+    rank_r: Vec<f64>,
     cross: Vec<f64>,
     gram: Vec<f64>,
     row_mean: Vec<f64>,
@@ -117,6 +118,18 @@ impl Measurement {
     /// Longest lag and horizon measured.
     pub fn horizons(&self) -> usize {
         self.horizons
+    }
+
+    /// `⟨f̃_t, r_{t+k−1}⟩` of the last update: the demeaned forecasts at date
+    /// `t` against the returns `k` periods later (`t + k ≤ dates − 1`).
+    pub fn lagged_cov(&self, t: usize, k: usize) -> f64 {
+        self.cross[t * self.horizons + k - 1]
+    }
+
+    /// The demeaned forecasts of the last update at dates `0..dates − 1`
+    /// (row-major; the last date, which has no return, is left out).
+    pub fn demeaned_forecasts(&self) -> &[f64] {
+        &self.fdm
     }
 
     /// Measures `panel` (needs `panel.dates ≥ horizons + 2`). Dates on which a
@@ -183,18 +196,17 @@ impl Measurement {
             }
         };
         let mut order = std::mem::take(&mut self.order);
-        ranked(&panel.forecasts, &mut self.fdm, &mut order);
-        ranked(&panel.returns, &mut self.rdm, &mut order);
+        ranked(&panel.forecasts, &mut self.rank_f, &mut order);
+        ranked(&panel.returns, &mut self.rank_r, &mut order);
         self.order = order;
-        banded_products(&self.fdm, &self.rdm, n, l, &mut self.tmp, &mut self.cross);
+        let mut cross = Vec::new();
+        banded_products(&self.rank_f, &self.rank_r, n, l, &mut self.tmp, &mut cross);
         self.rank_lagged.reset(l, t);
-        self.row_mean.clear(); // here: each return row's sum of squared centred ranks
-        self.row_mean.extend(self.rdm.chunks_exact(n).map(sums::sum_sq));
+        let r_ss: Vec<f64> = self.rank_r.chunks_exact(n).map(sums::sum_sq).collect();
         for date in 0..t - 1 {
-            let f_ss = sums::sum_sq(&self.fdm[date * n..(date + 1) * n]);
+            let f_ss = sums::sum_sq(&self.rank_f[date * n..(date + 1) * n]);
             for k in 1..=l.min(t - 1 - date) {
-                let r_ss = self.row_mean[date + k - 1];
-                push(&mut self.rank_lagged, k, self.cross[date * l + k - 1] / (f_ss * r_ss).sqrt());
+                push(&mut self.rank_lagged, k, cross[date * l + k - 1] / (f_ss * r_ss[date + k - 1]).sqrt());
             }
         }
     }

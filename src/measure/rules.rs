@@ -14,10 +14,12 @@ pub enum Rule {
     Formula,
     /// Optimum implied by a decay curve fitted to measured lagged ICs.
     Fitted,
+    /// Holding length with the best measured net information ratio (portfolios).
+    NetIr,
 }
 
 impl Rule {
-    /// Every rule, in report order.
+    /// Every horizon rule, in report order.
     pub const ALL: [Rule; 3] = [Rule::Peak, Rule::Formula, Rule::Fitted];
 
     /// The rule's name in outputs.
@@ -26,6 +28,7 @@ impl Rule {
             Rule::Peak => "peak",
             Rule::Formula => "formula",
             Rule::Fitted => "fitted",
+            Rule::NetIr => "net_ir",
         }
     }
 
@@ -35,6 +38,7 @@ impl Rule {
             Rule::Peak => "peak of the measured horizon IC",
             Rule::Formula => "peak of sum of measured lagged ICs / sqrt(n)",
             Rule::Fitted => "optimum of a decay curve fitted to measured lagged ICs (family by AIC)",
+            Rule::NetIr => "holding length with the best measured net information ratio of the tranche book",
         }
     }
 }

@@ -15,7 +15,7 @@ pub fn sum_sq(x: &[f64]) -> f64 {
 
 /// `Σ g(x_i)` in eight interleaved chains.
 #[inline(always)]
-fn sum_of(x: &[f64], g: impl Fn(f64) -> f64) -> f64 {
+pub fn sum_of(x: &[f64], g: impl Fn(f64) -> f64) -> f64 {
     let mut acc = [0.0f64; 8];
     let chunks = x.chunks_exact(8);
     let rest = chunks.remainder();

@@ -1,6 +1,7 @@
 //! CSV tables: curves with truth and measured bands; the chosen-horizon distribution.
 
 use crate::measure::rules::Rule;
+use crate::portfolio::PortfolioTruth;
 use crate::stats::BAND_LEVELS;
 use crate::study::{CurveStats, Setup, StudyResult};
 
@@ -82,6 +83,103 @@ pub fn choices_csv(setup: &Setup, study: &StudyResult) -> Vec<u8> {
             row.push(format!("{:.6}", r.choice_counts[i] as f64 / study.paths as f64));
         }
         w.write_record(&row).expect("in-memory CSV");
+    }
+    finish(w)
+}
+
+/// `holding.csv`: per holding length, both books' true figures and the
+/// measured net-IR bands and choices of the linear book.
+pub fn holding_csv(p: &PortfolioTruth, study: &StudyResult) -> Vec<u8> {
+    let (lin, qua) = (&p.linear, &p.quantile);
+    let mut w = csv::Writer::from_writer(Vec::new());
+    let mut header: Vec<String> = [
+        "holding",
+        "is_best",
+        "near_best",
+        "true_net_ir",
+        "true_net_ir_se",
+        "true_gross_ir",
+        "true_turnover",
+        "turnover_large_n",
+        "true_gross_mean",
+        "gross_mean_large_n",
+        "true_cost_mean",
+        "true_net_mean",
+        "true_net_vol",
+        "quantile_net_ir",
+        "quantile_gross_ir",
+        "quantile_turnover",
+        "net_ir_count",
+    ]
+    .iter()
+    .map(|s| s.to_string())
+    .collect();
+    header.extend(band_headers("measured_net_ir"));
+    w.write_record(&header).expect("in-memory CSV");
+    for i in 0..lin.net_ir.len() {
+        let mut row = vec![
+            (i + 1).to_string(),
+            u8::from(i + 1 == lin.best_holding).to_string(),
+            u8::from(lin.near_best_holding.contains(&(i + 1))).to_string(),
+            fmt(lin.net_ir[i]),
+            fmt(lin.net_ir_se[i]),
+            fmt(lin.gross_ir[i]),
+            fmt(lin.turnover[i]),
+            fmt(p.turnover_large_n[i]),
+            fmt(lin.gross_mean[i]),
+            fmt(p.gross_mean_large_n[i]),
+            fmt(lin.cost_mean[i]),
+            fmt(lin.net_mean[i]),
+            fmt(lin.net_vol[i]),
+            fmt(qua.net_ir[i]),
+            fmt(qua.gross_ir[i]),
+            fmt(qua.turnover[i]),
+            study.rules.net_ir.choice_counts[i].to_string(),
+        ];
+        row.extend(band_cells(&study.net_ir, i));
+        w.write_record(&row).expect("in-memory CSV");
+    }
+    finish(w)
+}
+
+/// `cost_sweep.csv`: per cost, the true and the measured net optimum.
+pub fn cost_sweep_csv(study: &StudyResult) -> Vec<u8> {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    w.write_record([
+        "cost_bps",
+        "true_best_holding",
+        "true_net_ir",
+        "true_net_ir_se",
+        "hit_rate",
+        "hit_rate_se",
+        "near_hit_rate",
+        "near_hit_rate_se",
+        "chosen_median",
+        "regret_ir_mean",
+        "regret_ir_mean_se",
+        "regret_bps_year_mean",
+        "regret_bps_year_mean_se",
+    ])
+    .expect("in-memory CSV");
+    for r in &study.cost_sweep {
+        let m = &r.measured;
+        let opt = |x: Option<f64>| x.map(fmt).unwrap_or_default();
+        w.write_record([
+            format!("{}", r.cost_bps),
+            r.true_best_holding.to_string(),
+            fmt(r.true_net_ir),
+            fmt(r.true_net_ir_se),
+            fmt(m.hit_rate),
+            fmt(m.hit_rate_se),
+            fmt(m.near_hit_rate),
+            fmt(m.near_hit_rate_se),
+            fmt(m.choice_quantiles[2]),
+            fmt(m.regret_mean),
+            opt(m.regret_mean_se),
+            opt(m.regret_bps_year_mean),
+            opt(m.regret_bps_year_mean_se),
+        ])
+        .expect("in-memory CSV");
     }
     finish(w)
 }

@@ -5,7 +5,7 @@ mod csv_tables;
 mod summary;
 mod terminal;
 
-pub use csv_tables::{choices_csv, curves_csv};
+pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
 pub use summary::{CAUTION, Summary, summary_json};
 pub use terminal::{period_word, terminal_summary};
 

@@ -1,5 +1,6 @@
 //! `summary.json`: the one results document that every other output agrees with.
 
+use crate::portfolio::PortfolioTruth;
 use crate::scenario::Scenario;
 use crate::study::{Setup, StudyResult};
 use crate::truth::Truth;
@@ -8,6 +9,27 @@ use serde::Serialize;
 /// The caution printed with every result.
 pub const CAUTION: &str = "Results are simulations under the stated assumptions, not investment advice. \
 Decisions belong to your firm's own risk process and to licensed professionals.";
+
+/// The truth as written: the horizon truth's fields, the linear book's
+/// per-holding-length figures at the top level, and both books in detail.
+#[derive(Debug, Serialize)]
+pub struct TruthOut<'a> {
+    /// Horizon-IC truth.
+    #[serde(flatten)]
+    pub horizon: &'a Truth,
+    /// Best holding length by true net IR of the linear book (1-based).
+    pub best_holding: usize,
+    /// Holding lengths within the tolerance of the best net IR.
+    pub near_best_holding: &'a [usize],
+    /// True annualised net IR per holding length (index 0 = holding 1).
+    pub net_ir: &'a [f64],
+    /// True annualised gross IR per holding length.
+    pub gross_ir: &'a [f64],
+    /// True traded notional per period per holding length.
+    pub turnover: &'a [f64],
+    /// Both books, closed forms and the reference simulation's size.
+    pub portfolio: &'a PortfolioTruth,
+}
 
 /// Everything a run produced.
 #[derive(Debug, Serialize)]
@@ -18,8 +40,8 @@ pub struct Summary<'a> {
     pub version: &'static str,
     /// The validated scenario.
     pub scenario: &'a Scenario,
-    /// True curves and optimum.
-    pub truth: &'a Truth,
+    /// True curves, optimum and portfolio figures.
+    pub truth: TruthOut<'a>,
     /// The Monte Carlo study.
     pub study: &'a StudyResult,
     /// Which horizon-IC form the study's truth is.
@@ -30,12 +52,21 @@ pub struct Summary<'a> {
 
 impl<'a> Summary<'a> {
     /// Bundles the results of a run.
-    pub fn new(setup: &'a Setup, study: &'a StudyResult) -> Self {
+    pub fn new(setup: &'a Setup, portfolio: &'a PortfolioTruth, study: &'a StudyResult) -> Self {
+        let lin = &portfolio.linear;
         Self {
             tool: "lagfold",
             version: env!("CARGO_PKG_VERSION"),
             scenario: &setup.scenario,
-            truth: &setup.truth,
+            truth: TruthOut {
+                horizon: &setup.truth,
+                best_holding: lin.best_holding,
+                near_best_holding: &lin.near_best_holding,
+                net_ir: &lin.net_ir,
+                gross_ir: &lin.gross_ir,
+                turnover: &lin.turnover,
+                portfolio,
+            },
             study,
             truth_note: "truth.horizon_ic (the study's truth) is the expected per-date horizon IC at large N; \
 horizon_ic_pooled is sum g_k / sqrt(V_n); horizon_ic_simple is sum IC_k / sqrt(n) (Qian, Hua and Sorensen)",

@@ -2,6 +2,7 @@
 //! and one plain sentence.
 
 use super::summary::CAUTION;
+use crate::portfolio::PortfolioTruth;
 use crate::study::{RuleStats, Setup, StudyResult};
 use std::fmt::Write;
 
@@ -87,8 +88,84 @@ fn rule_row(out: &mut String, name: &str, r: &RuleStats) {
     );
 }
 
+/// The holding-period section: both books by holding length, the net
+/// optimum against the horizon-IC peak, the net-IR rule and the cost sweep.
+fn holding_section(out: &mut String, setup: &Setup, p: &PortfolioTruth, study: &StudyResult, unit: &str) {
+    let lin = &p.linear;
+    let _ = writeln!(
+        out,
+        "\nHolding-period book (tranches ∝ forecast, {} bps one-way; truth from {} reference histories)",
+        p.cost_bps, p.reference_paths
+    );
+    let _ = writeln!(
+        out,
+        "  {:>7}  {:>8}  {:>8}  {:>15}  {:>15}",
+        "holding", "gross IR", "turnover", "net IR", "quantile net IR"
+    );
+    for h in shown_horizons(lin.net_ir.len(), lin.best_holding) {
+        let mark = if h == lin.best_holding {
+            "  ← best"
+        } else if lin.near_best_holding.contains(&h) {
+            "  · near"
+        } else {
+            ""
+        };
+        let _ = writeln!(
+            out,
+            "  {h:>7}  {:>8.2}  {:>8.3}  {:>8.2} ± {:<4.2}  {:>15.2}{mark}",
+            lin.gross_ir[h - 1],
+            lin.turnover[h - 1],
+            lin.net_ir[h - 1],
+            lin.net_ir_se[h - 1],
+            p.quantile.net_ir[h - 1]
+        );
+    }
+    let _ = writeln!(
+        out,
+        "  True best holding: {} (net IR {:.2} a year); near-best: {}. The horizon-IC peak says {}.",
+        plural(lin.best_holding, unit),
+        lin.net_ir[lin.best_holding - 1],
+        ranges(&lin.near_best_holding),
+        plural(setup.truth.best_horizon, unit)
+    );
+    let r = &study.rules.net_ir;
+    let _ = writeln!(
+        out,
+        "  Measured net optimum: exact hit {}, within ±1 {}, regret {:.3} IR ({:.1} bps a year), chosen 5–50–95%: {:.0} – {:.0} – {:.0}",
+        pct_se(r.hit_rate, Some(r.hit_rate_se)).trim(),
+        pct_se(r.near_hit_rate, Some(r.near_hit_rate_se)).trim(),
+        r.regret_mean,
+        r.regret_bps_year_mean.unwrap_or(f64::NAN),
+        r.choice_quantiles[0],
+        r.choice_quantiles[2],
+        r.choice_quantiles[4]
+    );
+    if !study.cost_sweep.is_empty() {
+        let _ = writeln!(out, "\nNet optimum by cost (truth from the reference; measured over the study's histories)");
+        let _ = writeln!(
+            out,
+            "  {:>8}  {:>9}  {:>11}  {:>14}  {:>14}  {:>7}  {:>11}",
+            "cost bps", "true best", "true net IR", "exact hit", "within ±1", "median", "regret bps"
+        );
+        for row in &study.cost_sweep {
+            let m = &row.measured;
+            let _ = writeln!(
+                out,
+                "  {:>8}  {:>9}  {:>11.2}  {:>14}  {:>14}  {:>7.0}  {:>11.1}",
+                row.cost_bps,
+                row.true_best_holding,
+                row.true_net_ir,
+                pct_se(m.hit_rate, Some(m.hit_rate_se)),
+                pct_se(m.near_hit_rate, Some(m.near_hit_rate_se)),
+                m.choice_quantiles[2],
+                m.regret_bps_year_mean.unwrap_or(f64::NAN)
+            );
+        }
+    }
+}
+
 /// The whole terminal summary.
-pub fn terminal_summary(setup: &Setup, study: &StudyResult) -> String {
+pub fn terminal_summary(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult) -> String {
     let (s, t) = (&setup.scenario, &setup.truth);
     let unit = period_word(s.periods_per_year);
     let mut out = String::new();
@@ -160,6 +237,7 @@ pub fn terminal_summary(setup: &Setup, study: &StudyResult) -> String {
         p.winners_curse_mean,
         pct(p.winners_curse_mean / t.h(t.best_horizon))
     );
+    holding_section(&mut out, setup, portfolio, study, unit);
     let _ = writeln!(
         out,
         "\nIn plain words: with {:.0} years of {} history on {} assets, the measured peak lands within one {unit} of the true best horizon ({}) in {} of histories, and on average gives up {} of the best achievable horizon IC.",

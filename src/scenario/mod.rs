@@ -5,7 +5,7 @@ mod locate;
 pub mod presets;
 mod raw;
 
-pub use raw::{RawScenario, RawTails};
+pub use raw::{RawPortfolio, RawScenario, RawTails};
 
 use crate::decay::{DecayCurve, out_of_range};
 use crate::error::{InputError, ScenarioError};
@@ -67,6 +67,28 @@ pub struct Scenario {
     pub rank_ic: bool,
     /// The user's lagged-IC curve.
     pub decay: DecayCurve,
+    /// Holding-period portfolios.
+    pub portfolio: PortfolioSpec,
+}
+
+/// Holding-period portfolio settings (validated).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct PortfolioSpec {
+    /// One-way cost in basis points of traded notional (≥ 0).
+    pub cost_bps: f64,
+    /// Quantiles of the top-minus-bottom book (each leg keeps ≥ 5 assets).
+    pub quantiles: usize,
+    /// Histories in the reference simulation of the true net IR (≥ 10).
+    pub reference_paths: usize,
+}
+
+/// Checks a one-way cost in basis points.
+pub fn check_cost_bps(key: &str, v: f64) -> Result<f64, ScenarioError> {
+    if v.is_finite() && (0.0..10_000.0).contains(&v) {
+        Ok(v)
+    } else {
+        Err(out_of_range(key, v, "in [0, 10000) basis points"))
+    }
 }
 
 /// Command-line overrides of the common knobs, applied before validation.
@@ -177,6 +199,28 @@ impl Scenario {
             return Err(out_of_range("near_best_tolerance", raw.near_best_tolerance, "in [0, 1)"));
         }
         let decay = DecayCurve::new(raw.decay.clone())?;
+        let p = &raw.portfolio;
+        let portfolio = PortfolioSpec {
+            cost_bps: check_cost_bps("portfolio.cost_bps", p.cost_bps)?,
+            quantiles: if p.quantiles >= 2 && raw.assets / p.quantiles.max(1) >= 5 {
+                p.quantiles
+            } else {
+                return Err(out_of_range(
+                    "portfolio.quantiles",
+                    p.quantiles,
+                    &format!(
+                        "between 2 and {} (each leg needs at least 5 of the {} assets)",
+                        raw.assets / 5,
+                        raw.assets
+                    ),
+                ));
+            },
+            reference_paths: if p.reference_paths >= 10 {
+                p.reference_paths
+            } else {
+                return Err(out_of_range("portfolio.reference_paths", p.reference_paths, "at least 10"));
+            },
+        };
         let truncation = match raw.truncation {
             Some(0) => return Err(out_of_range("truncation", 0, "at least 1")),
             Some(k) if k > 20_000 => return Err(out_of_range("truncation", k, "at most 20000")),
@@ -201,6 +245,7 @@ impl Scenario {
             truncation,
             rank_ic: raw.rank_ic,
             decay,
+            portfolio,
         })
     }
 }

@@ -56,6 +56,34 @@ pub struct RawScenario {
     pub rank_ic: bool,
     /// The lagged-IC decay curve (expected per-date IC), checked in validation.
     pub decay: DecayShape,
+    /// Holding-period portfolios.
+    #[serde(default)]
+    pub portfolio: RawPortfolio,
+}
+
+/// Holding-period portfolios (`[portfolio]`).
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawPortfolio {
+    /// One-way cost in basis points of traded notional.
+    #[serde(default = "defaults::cost_bps")]
+    pub cost_bps: f64,
+    /// Quantiles of the top-minus-bottom book (5 = quintiles).
+    #[serde(default = "defaults::quantiles")]
+    pub quantiles: usize,
+    /// Histories in the reference simulation of the true net IR.
+    #[serde(default = "defaults::reference_paths")]
+    pub reference_paths: usize,
+}
+
+impl Default for RawPortfolio {
+    fn default() -> Self {
+        Self {
+            cost_bps: defaults::cost_bps(),
+            quantiles: defaults::quantiles(),
+            reference_paths: defaults::reference_paths(),
+        }
+    }
 }
 
 /// Idiosyncratic noise (`family = "normal"` or `"student_t"` with `dof`).
@@ -96,5 +124,14 @@ mod defaults {
     }
     pub fn near_best_tolerance() -> f64 {
         0.01
+    }
+    pub fn cost_bps() -> f64 {
+        10.0
+    }
+    pub fn quantiles() -> usize {
+        5
+    }
+    pub fn reference_paths() -> usize {
+        400
     }
 }
