@@ -1,13 +1,15 @@
 //! One study path at `N = 1000, T = 120, L = 24` against drawing the same
-//! number of standard normals, and the parts of a path. Prints the ratio
-//! path / bare draws from one interleaved run (target: at most 3) and the
-//! time of a path against the NumPy reference of NOTES.md (target: 4× faster).
+//! number of standard normals, and the parts of a path. Prints, each from one
+//! interleaved run: core path (simulate, measure, three rules) / bare draws
+//! (target: at most 3); the core path against the NumPy reference of NOTES.md
+//! (target: 4× faster); the portfolio layer / core path (target: at most 0.5).
 
 mod common;
 
 use criterion::{Criterion, criterion_group};
 use lagfold::generate::Workspace;
 use lagfold::measure::Measurement;
+use lagfold::portfolio::BookBuilder;
 use lagfold::rng::{fill_normal, path_rng};
 use lagfold::study::{Setup, Worker};
 use std::hint::black_box;
@@ -23,21 +25,41 @@ fn ratio_report(setup: &Setup) {
         30,
         || {
             p += 1;
-            black_box(worker.run_path(setup, p));
+            black_box(worker.measure_path(setup, p));
         },
         || fill_normal(&mut rng, black_box(&mut buf)),
     );
     println!(
-        "ratio  whole path / bare draws ({draws} normals) = {:.2}  (path {:.3} ms, draws {:.3} ms; target ≤ 3)",
+        "ratio  core path / bare draws ({draws} normals) = {:.2}  (path {:.3} ms, draws {:.3} ms; target ≤ 3)",
         path / bare,
         path * 1e3,
         bare * 1e3
     );
     println!(
-        "speed  one path on one thread = {:.3} ms; NumPy reference {:.0} ms (NOTES.md) → {:.1}× (target ≥ 4×)\n",
+        "speed  one core path on one thread = {:.3} ms; NumPy reference {:.0} ms (NOTES.md) → {:.1}× (target ≥ 4×)",
         path * 1e3,
         NUMPY_PATH * 1e3,
         NUMPY_PATH / path
+    );
+    // The portfolio layer: the linear books of every holding length, against the rest of the path.
+    let (mut ws, mut meas, mut books) = (Workspace::default(), Measurement::new(24, false), BookBuilder::default());
+    setup.generator.simulate(&mut path_rng(9, 0), &mut ws);
+    meas.update(&ws.panel);
+    let (core, layer) = common::interleaved(
+        30,
+        || {
+            p += 1;
+            black_box(worker.measure_path(setup, p));
+        },
+        || {
+            black_box(books.build(&ws.panel, &meas, 0.06, None));
+        },
+    );
+    println!(
+        "ratio  portfolio layer / core path = {:.2}  (books of all 24 holding lengths {:.3} ms, core path {:.3} ms; target ≤ 0.5)\n",
+        layer / core,
+        layer * 1e3,
+        core * 1e3
     );
 }
 
@@ -56,6 +78,7 @@ fn benches(c: &mut Criterion) {
     g.bench_function("simulate", |b| b.iter(|| setup.generator.simulate(&mut rng, black_box(&mut ws))));
     g.bench_function("measure", |b| b.iter(|| meas.update(black_box(&ws.panel))));
     let mut p = 0u64;
+    g.bench_function("books", |b| b.iter(|| black_box(BookBuilder::default().build(&ws.panel, &meas, 0.06, None))));
     g.bench_function("whole_path", |b| {
         b.iter(|| {
             p += 1;

@@ -4,24 +4,28 @@
 mod common;
 
 use criterion::{Criterion, criterion_group};
+use lagfold::portfolio::PortfolioTruth;
 use lagfold::study;
 use std::hint::black_box;
 
 fn benches(c: &mut Criterion) {
     let setup = common::setup(2000);
+    let truth = PortfolioTruth::compute(&setup, 2, &|_| {});
     let mut g = c.benchmark_group("study_2000_paths");
     g.sample_size(10);
     for threads in [1usize, 2] {
-        g.bench_function(format!("threads_{threads}"), |b| b.iter(|| black_box(study::run(&setup, threads, &|_| {}))));
+        g.bench_function(format!("threads_{threads}"), |b| {
+            b.iter(|| black_box(study::run(&setup, &truth, &[], threads, &|_| {})))
+        });
     }
     g.finish();
     let (one, two) = common::interleaved(
         3,
         || {
-            black_box(study::run(&setup, 1, &|_| {}));
+            black_box(study::run(&setup, &truth, &[], 1, &|_| {}));
         },
         || {
-            black_box(study::run(&setup, 2, &|_| {}));
+            black_box(study::run(&setup, &truth, &[], 2, &|_| {}));
         },
     );
     println!(

@@ -142,8 +142,9 @@ impl Worker {
         Self { ws: Workspace::default(), meas: Measurement::new(s.horizons, s.rank_ic), books: BookBuilder::default() }
     }
 
-    /// Simulates and measures path `path`.
-    pub fn run_path(&mut self, setup: &Setup, path: u64) -> PathOutcome {
+    /// Simulates and measures path `path`: the core of a study path, without
+    /// the portfolio layer (`books` is left empty).
+    pub fn measure_path(&mut self, setup: &Setup, path: u64) -> PathOutcome {
         let mut rng = path_rng(setup.scenario.seed, path);
         setup.generator.simulate(&mut rng, &mut self.ws);
         self.meas.update(&self.ws.panel);
@@ -151,8 +152,15 @@ impl Worker {
         let horizon = self.meas.horizon.means();
         let choices = rules::choose(&lagged, &lagged_se, &horizon);
         let rank_lagged = setup.scenario.rank_ic.then(|| self.meas.rank_lagged.means());
-        let books = self.books.build(&self.ws.panel, &self.meas, setup.scenario.residual_vol, None).linear;
-        PathOutcome { lagged, horizon, rank_lagged, choices, books }
+        PathOutcome { lagged, horizon, rank_lagged, choices, books: Vec::new() }
+    }
+
+    /// A whole study path: [`Worker::measure_path`] plus the linear books of
+    /// every holding length.
+    pub fn run_path(&mut self, setup: &Setup, path: u64) -> PathOutcome {
+        let mut out = self.measure_path(setup, path);
+        out.books = self.books.build(&self.ws.panel, &self.meas, setup.scenario.residual_vol, None).linear;
+        out
     }
 }
 
