@@ -105,11 +105,31 @@ fn other_ranges_are_checked_too() {
 }
 
 #[test]
+fn portfolio_settings_are_checked() {
+    let err = fails(&format!("{DECAY}[portfolio]\ncost_bps = -5\n"), &[]);
+    has(&err, &["line 6", "`portfolio.cost_bps` must be in [0, 10000) basis points, got -5"]);
+    let err = fails(DECAY, &["--cost-bps", "0,-2"]);
+    has(&err, &["`--cost-bps value 2` must be in [0, 10000) basis points, got -2"]);
+    let err = fails(&format!("assets = 40\n{DECAY}[portfolio]\nquantiles = 10\n"), &[]);
+    has(
+        &err,
+        &[
+            "line 7",
+            "`portfolio.quantiles` must be between 2 and 8 (each leg needs at least 5 of the 40 assets), got 10",
+        ],
+    );
+    let err = fails(&format!("{DECAY}[portfolio]\nreference_paths = 3\n"), &[]);
+    has(&err, &["`portfolio.reference_paths` must be at least 10, got 3"]);
+    let err = fails(&format!("{DECAY}[portfolio]\nslippage = 3\n"), &[]);
+    has(&err, &["line 6", "slippage"]);
+}
+
+#[test]
 fn sizes_that_would_exhaust_memory_are_refused() {
     let err = fails(&format!("assets = 1000000\nhistory = 1000\n{DECAY}"), &[]);
     has(&err, &["line 1", "`assets` must be such that assets × history ≤ 50000000"]);
-    let err = fails(DECAY, &["--paths", "100000000"]);
-    has(&err, &["`paths` must be such that paths × horizons ≤ 100000000"]);
+    let err = fails(DECAY, &["--paths", "1000000"]);
+    has(&err, &["`paths` must be such that paths × horizons ≤ 20000000"]);
 }
 
 #[test]

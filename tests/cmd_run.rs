@@ -99,6 +99,55 @@ fn run_takes_a_preset_name_and_the_common_overrides() {
 }
 
 #[test]
+fn portfolio_truth_net_rule_and_cost_sweep_are_written() {
+    let tmp = tempfile::tempdir().unwrap();
+    let a = lagfold()
+        .args(["run", "monthly-steady", "--paths", "40", "--assets", "150", "--history", "60", "--horizons", "8"])
+        .args(["--cost-bps", "0,10,40", "--out"])
+        .arg(tmp.path())
+        .assert()
+        .success();
+    let stdout = String::from_utf8(a.get_output().stdout.clone()).unwrap();
+    for needle in ["Holding-period book", "True best holding", "Net optimum by cost", "cost_sweep.csv"] {
+        assert!(stdout.contains(needle), "missing {needle:?} in\n{stdout}");
+    }
+    let s = summary(tmp.path());
+    let best = s["truth"]["best_holding"].as_u64().unwrap() as usize;
+    assert!((1..=8).contains(&best));
+    for key in ["net_ir", "gross_ir", "turnover"] {
+        assert_eq!(s["truth"][key].as_array().unwrap().len(), 8, "truth.{key}");
+    }
+    let r = &s["study"]["rules"]["net_ir"];
+    for key in [
+        "hit_rate",
+        "hit_rate_se",
+        "near_hit_rate",
+        "near_hit_rate_se",
+        "regret_mean",
+        "regret_rel_mean",
+        "regret_bps_year_mean",
+    ] {
+        assert!(r[key].is_number(), "study.rules.net_ir.{key}");
+    }
+    assert_eq!(r["choice_counts"].as_array().unwrap().iter().map(|v| v.as_u64().unwrap()).sum::<u64>(), 40);
+    let sweep = std::fs::read_to_string(tmp.path().join("cost_sweep.csv")).unwrap();
+    assert_eq!(sweep.lines().count(), 4);
+    assert!(sweep.starts_with("cost_bps,true_best_holding,true_net_ir"));
+    let holding = std::fs::read_to_string(tmp.path().join("holding.csv")).unwrap();
+    assert_eq!(holding.lines().count(), 9);
+    // A single --cost-bps value replaces the scenario's cost and adds no sweep.
+    let one = tmp.path().join("one");
+    lagfold()
+        .args(["run", "monthly-steady", "--paths", "20", "--assets", "150", "--history", "60", "--horizons", "8"])
+        .args(["--cost-bps", "25", "-q", "--out"])
+        .arg(&one)
+        .assert()
+        .success();
+    assert_eq!(summary(&one)["truth"]["portfolio"]["cost_bps"], 25.0);
+    assert!(!one.join("cost_sweep.csv").exists());
+}
+
+#[test]
 fn outputs_are_byte_identical_on_one_and_two_threads() {
     let tmp = tempfile::tempdir().unwrap();
     for threads in ["1", "2"] {
@@ -123,7 +172,7 @@ fn outputs_are_byte_identical_on_one_and_two_threads() {
             .assert()
             .success();
     }
-    for file in ["summary.json", "curves.csv", "choices.csv"] {
+    for file in ["summary.json", "curves.csv", "choices.csv", "holding.csv"] {
         let one = std::fs::read(tmp.path().join("1").join(file)).unwrap();
         let two = std::fs::read(tmp.path().join("2").join(file)).unwrap();
         assert!(one == two, "{file} differs between 1 and 2 threads");

@@ -3,7 +3,10 @@
 //!
 //! Closed forms, for weights proportional to a standardised normal score at
 //! unit gross exposure (`E|f| = sqrt(2/π)`):
-//! - expected gross return per period `σ·sqrt(π/2)·(1/h)·Σ_{k≤h} IC_k`;
+//! - expected gross return per period `σ·sqrt(π/2)·(1/h)·Σ_{k≤h} g_k`, with
+//!   `g_k` the pooled correlation: a book earns the cross-sectional
+//!   *covariance*, whose mean is `g_k`; it equals the per-date `IC_k` when
+//!   `ic_vol = 0` and sits slightly above it otherwise (MODEL.md §1);
 //! - traded notional per period `sqrt(2(1−ρ^h))/h`, from
 //!   `E|Δ| = 2·sqrt((1−ρ)/π)` per unit of score (Qian, Sorensen and Hua, 2007).
 //!
@@ -142,7 +145,7 @@ impl PortfolioTruth {
         let qua_paths: Vec<Vec<BookSums>> = per_path.iter().map(|b| b.quantile.clone()).collect();
         let c = spec.cost_bps * 1e-4;
         let (ppy, tol) = (s.periods_per_year, s.near_best_tolerance);
-        let ic = |k: usize| setup.model.target.get(k - 1).copied().unwrap_or(0.0);
+        let ic = |k: usize| setup.model.g(k);
         let scale = s.residual_vol * (std::f64::consts::PI / 2.0).sqrt();
         Self {
             cost_bps: spec.cost_bps,

@@ -13,8 +13,8 @@ use serde::Serialize;
 
 /// Largest `assets × history` (a history takes 16 bytes per asset-date per worker).
 pub const MAX_ASSET_DATES: usize = 50_000_000;
-/// Largest `paths × horizons` (the study keeps two curves per path).
-pub const MAX_PATH_HORIZONS: usize = 100_000_000;
+/// Largest `paths × horizons` (the study keeps two curves and the book sums, 64 bytes per path and horizon).
+pub const MAX_PATH_HORIZONS: usize = 20_000_000;
 
 /// Idiosyncratic noise law (validated).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
