@@ -248,6 +248,14 @@ pub fn terminal_summary(setup: &Setup, portfolio: &PortfolioTruth, study: &Study
         pct(p.near_hit_rate),
         pct(p.regret_rel_mean)
     );
+    let (lin, r) = (&portfolio.linear, &study.rules.net_ir);
+    let _ = writeln!(
+        out,
+        "Net of {} bps trading costs the best holding period is {}; choosing it from one history's measured net IR gives up {:.1} bps a year on average.",
+        portfolio.cost_bps,
+        plural(lin.best_holding, unit),
+        r.regret_bps_year_mean.unwrap_or(f64::NAN)
+    );
     let _ = writeln!(out, "\n{CAUTION}");
     out
 }

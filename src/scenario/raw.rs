@@ -132,6 +132,6 @@ mod defaults {
         5
     }
     pub fn reference_paths() -> usize {
-        400
+        1000
     }
 }
