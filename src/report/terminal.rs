@@ -46,6 +46,15 @@ fn ranges(xs: &[usize]) -> String {
     parts.join(", ")
 }
 
+/// The marker after a table row: the best choice, or one in the near-best set.
+fn mark(best: bool, near: bool) -> &'static str {
+    match (best, near) {
+        (true, _) => "  ← best",
+        (false, true) => "  · near",
+        _ => "",
+    }
+}
+
 fn pct(x: f64) -> String {
     format!("{:.1}%", 100.0 * x)
 }
@@ -103,13 +112,7 @@ fn holding_section(out: &mut String, setup: &Setup, p: &PortfolioTruth, study: &
         "holding", "gross IR", "turnover", "net IR", "quantile net IR"
     );
     for h in shown_horizons(lin.net_ir.len(), lin.best_holding) {
-        let mark = if h == lin.best_holding {
-            "  ← best"
-        } else if lin.near_best_holding.contains(&h) {
-            "  · near"
-        } else {
-            ""
-        };
+        let mark = mark(h == lin.best_holding, lin.near_best_holding.contains(&h));
         let _ = writeln!(
             out,
             "  {h:>7}  {:>8.2}  {:>8.3}  {:>8.2} ± {:<4.2}  {:>15.2}{mark}",
@@ -190,13 +193,7 @@ pub fn terminal_summary(setup: &Setup, portfolio: &PortfolioTruth, study: &Study
     let _ =
         writeln!(out, "  {:>7}  {:>10}  {:>10}  {:>10}  {:>10}", "n", "lagged IC", "horizon IC", "pooled", "Σ IC/√n");
     for n in shown_horizons(s.horizons, t.best_horizon) {
-        let mark = if n == t.best_horizon {
-            "  ← best"
-        } else if t.is_near_best(n) {
-            "  · near"
-        } else {
-            ""
-        };
+        let mark = mark(n == t.best_horizon, t.is_near_best(n));
         let _ = writeln!(
             out,
             "  {n:>7}  {:>10.4}  {:>10.4}  {:>10.4}  {:>10.4}{mark}",
