@@ -444,15 +444,15 @@ pub fn net_ir_rule(setup: &Setup, truth_ir: &[f64], truth_net_vol: &[f64], c: f6
     let ppy = setup.scenario.periods_per_year;
     let near = near_set(truth_ir, setup.scenario.near_best_tolerance);
     let target = Target { truth: truth_ir, best: argmax1(truth_ir), near: &near };
-    let measured_ir = |p: usize| outcomes.books(p).iter().map(|b| b.ir(c, ppy)).collect::<Vec<_>>();
-    let choice = |p: usize| argmax1(&measured_ir(p));
-    let mut stats = rule_stats(Rule::NetIr.describe(), &target, outcomes.paths(), choice, |p, n| {
-        outcomes.books(p)[n - 1].ir(c, ppy)
-    });
+    let ir = |p: usize, n: usize| outcomes.books(p)[n - 1].ir(c, ppy);
+    let l = truth_ir.len();
+    let chosen: Vec<usize> =
+        (0..outcomes.paths()).map(|p| argmax1(&(1..=l).map(|n| ir(p, n)).collect::<Vec<_>>())).collect();
+    let mut stats = rule_stats(Rule::NetIr.describe(), &target, outcomes.paths(), |p| chosen[p], ir);
     let annual_vol_bps = truth_net_vol[target.best - 1] * ppy.sqrt() * 1e4;
     let mut bps = Moments::default();
-    for p in 0..outcomes.paths() {
-        bps.push((truth_ir[target.best - 1] - truth_ir[choice(p) - 1]) * annual_vol_bps);
+    for &n in &chosen {
+        bps.push((truth_ir[target.best - 1] - truth_ir[n - 1]) * annual_vol_bps);
     }
     stats.regret_bps_year_mean = Some(bps.mean());
     stats.regret_bps_year_mean_se = bps.se();
