@@ -11,6 +11,7 @@ pub mod error;
 pub mod generate;
 pub mod measure;
 pub mod model;
+pub mod plan;
 pub mod portfolio;
 pub mod report;
 pub mod rng;

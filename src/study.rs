@@ -76,7 +76,8 @@ pub struct Outcomes {
 }
 
 impl Outcomes {
-    fn with_capacity(paths: usize, l: usize, rank: bool) -> Self {
+    /// Room for `paths` outcomes with `l` lags.
+    pub fn with_capacity(paths: usize, l: usize, rank: bool) -> Self {
         Self {
             len: l,
             lagged: Vec::with_capacity(paths * l),
@@ -87,7 +88,8 @@ impl Outcomes {
         }
     }
 
-    fn push(&mut self, o: PathOutcome) {
+    /// Appends one path's outcome.
+    pub fn push(&mut self, o: PathOutcome) {
         self.lagged.extend_from_slice(&o.lagged);
         self.horizon.extend_from_slice(&o.horizon);
         if let Some(r) = &o.rank_lagged {
@@ -145,14 +147,28 @@ impl Worker {
     /// Simulates and measures path `path`: the core of a study path, without
     /// the portfolio layer (`books` is left empty).
     pub fn measure_path(&mut self, setup: &Setup, path: u64) -> PathOutcome {
-        let mut rng = path_rng(setup.scenario.seed, path);
-        setup.generator.simulate(&mut rng, &mut self.ws);
-        self.meas.update(&self.ws.panel);
+        self.simulate_and_measure(setup, path);
         let (lagged, lagged_se) = self.meas.lagged.means_and_se(false);
         let horizon = self.meas.horizon.means();
         let choices = rules::choose(&lagged, &lagged_se, &horizon);
         let rank_lagged = setup.scenario.rank_ic.then(|| self.meas.rank_lagged.means());
         PathOutcome { lagged, horizon, rank_lagged, choices, books: Vec::new() }
+    }
+
+    /// Simulates path `path` and measures its per-date ICs.
+    pub fn simulate_and_measure(&mut self, setup: &Setup, path: u64) {
+        setup.generator.simulate(&mut path_rng(setup.scenario.seed, path), &mut self.ws);
+        self.meas.update(&self.ws.panel);
+    }
+
+    /// The measurement of the last path.
+    pub fn measurement(&self) -> &Measurement {
+        &self.meas
+    }
+
+    /// The linear books of the last path as if it had ended after each of `ends` dates.
+    pub fn book_prefixes(&mut self, setup: &Setup, ends: &[usize]) -> Vec<Vec<BookSums>> {
+        self.books.linear_prefixes(&self.ws.panel, &self.meas, setup.scenario.residual_vol, ends)
     }
 
     /// A whole study path: [`Worker::measure_path`] plus the linear books of

@@ -1,6 +1,7 @@
 //! The command line, apart from the engine: parse options, read the scenario,
 //! run, write, report. Exit codes: 0 ok, 1 failure, 2 bad input.
 
+mod plan;
 mod presets_cmd;
 mod progress;
 mod run;
@@ -24,6 +25,8 @@ pub enum Command {
     Run(run::RunArgs),
     /// Run the study on the built-in default scenario.
     Demo(run::StudyArgs),
+    /// How much history is needed: every rule's record over a grid of history lengths.
+    Plan(plan::PlanArgs),
     /// List the built-in presets, or print one as TOML.
     Presets(presets_cmd::PresetsArgs),
 }
@@ -64,6 +67,7 @@ pub fn main() -> i32 {
     let result = match cli.command {
         Command::Run(a) => run::run(&a),
         Command::Demo(a) => run::demo(&a),
+        Command::Plan(a) => plan::run(&a),
         Command::Presets(a) => presets_cmd::run(&a),
     };
     match result {

@@ -52,7 +52,8 @@ pub struct RunArgs {
 }
 
 impl StudyArgs {
-    fn overrides(&self) -> Overrides {
+    /// The overrides of the scenario's common knobs.
+    pub fn overrides(&self) -> Overrides {
         Overrides {
             assets: self.assets,
             history: self.history,
@@ -63,8 +64,13 @@ impl StudyArgs {
     }
 }
 
+/// Worker threads: `--threads`, or every core.
+pub fn threads(a: &StudyArgs) -> usize {
+    a.threads.map_or_else(|| std::thread::available_parallelism().map_or(1, |n| n.get()), usize::from)
+}
+
 /// Reads a scenario from a file, or from a preset when no such file exists.
-fn read_scenario(path: &Path, ov: &Overrides) -> Result<Scenario, Failure> {
+pub fn read_scenario(path: &Path, ov: &Overrides) -> Result<Scenario, Failure> {
     let name = path.to_string_lossy();
     if !path.exists() && presets::ALL.iter().any(|(n, _)| *n == name) {
         return scenario::load(presets::text(&name).map_err(Failure::input)?, &format!("preset {name}"), &name, ov)
@@ -99,7 +105,7 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     }
     let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(&scenario.name));
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
-    let threads = a.threads.map_or_else(|| std::thread::available_parallelism().map_or(1, |n| n.get()), usize::from);
+    let threads = threads(a);
     let s = &setup.scenario;
     let bar = progress::bar(s.portfolio.reference_paths, a.quiet, "reference");
     let portfolio = PortfolioTruth::compute(&setup, threads, &|done| bar.set_position(done as u64));

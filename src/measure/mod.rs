@@ -55,24 +55,41 @@ impl PerDate {
         &row[..self.counts[k - 1]]
     }
 
-    /// Mean over dates at every lag (index 0 = lag 1).
-    pub fn means(&self) -> Vec<f64> {
-        (1..=self.len()).map(|k| self.mean(k)).collect()
+    /// The values at lag `k` of the first `dates` dates of the panel, as if
+    /// the history had ended there (lag `k` keeps `dates − k` of them). Exact
+    /// when no date was skipped, as in simulated panels.
+    pub fn series_upto(&self, k: usize, dates: usize) -> &[f64] {
+        let s = self.series(k);
+        &s[..s.len().min(dates.saturating_sub(k))]
     }
 
-    /// Mean over dates at lag `k` (1-based).
-    pub fn mean(&self, k: usize) -> f64 {
-        let s = self.series(k);
-        s.iter().sum::<f64>() / s.len() as f64
+    /// Mean over dates at every lag (index 0 = lag 1).
+    pub fn means(&self) -> Vec<f64> {
+        self.means_upto(usize::MAX)
+    }
+
+    /// [`PerDate::means`] over the first `dates` dates.
+    pub fn means_upto(&self, dates: usize) -> Vec<f64> {
+        (1..=self.len())
+            .map(|k| {
+                let s = self.series_upto(k, dates);
+                s.iter().sum::<f64>() / s.len() as f64
+            })
+            .collect()
     }
 
     /// Means with overlap-aware standard errors ([`hac::mean_and_se`] with
     /// [`hac::hac_lags`]); `overlap` is true for horizon ICs (lag count from
     /// the horizon) and false for lagged ICs (lag count as for horizon 1).
     pub fn means_and_se(&self, overlap: bool) -> (Vec<f64>, Vec<Option<f64>>) {
+        self.means_and_se_upto(overlap, usize::MAX)
+    }
+
+    /// [`PerDate::means_and_se`] over the first `dates` dates.
+    pub fn means_and_se_upto(&self, overlap: bool, dates: usize) -> (Vec<f64>, Vec<Option<f64>>) {
         (1..=self.len())
             .map(|k| {
-                let s = self.series(k);
+                let s = self.series_upto(k, dates);
                 hac::mean_and_se(s, hac::hac_lags(s, if overlap { k } else { 1 }))
             })
             .unzip()

@@ -60,8 +60,23 @@ impl BookBuilder {
     /// residual volatility `sigma`; the quantile book too when `q` (the number
     /// of quantiles) is given.
     pub fn build(&mut self, panel: &Panel, meas: &Measurement, sigma: f64, q: Option<usize>) -> PathBooks {
-        let (n, dates, l) = (panel.assets, panel.dates, meas.horizons());
-        let rows = dates - 1; // dates with a forward return
+        let linear = self.linear_prefixes(panel, meas, sigma, &[panel.dates]).pop().unwrap_or_default();
+        let quantile = q.map(|q| self.quantile_book(panel, meas.demeaned_forecasts(), q, meas.horizons(), sigma));
+        PathBooks { linear, quantile: quantile.unwrap_or_default() }
+    }
+
+    /// The linear book's sums as if the history had ended after each of the
+    /// `ends` dates (ascending, each at least `L + 2`): the books of a shorter
+    /// history are a prefix of the longer one's, so one pass serves all.
+    pub fn linear_prefixes(
+        &mut self,
+        panel: &Panel,
+        meas: &Measurement,
+        sigma: f64,
+        ends: &[usize],
+    ) -> Vec<Vec<BookSums>> {
+        let (n, l) = (panel.assets, meas.horizons());
+        let rows = panel.dates - 1; // dates with a forward return
         let fdm = meas.demeaned_forecasts();
         self.gross_norm.clear();
         self.gross_norm.extend(fdm.chunks_exact(n).map(|f| sum_of(f, f64::abs)));
@@ -70,6 +85,8 @@ impl BookBuilder {
             self.weights.extend(f.iter().map(|x| (x / a) as f32));
         }
         let mut linear = vec![BookSums::default(); l];
+        let mut out = Vec::with_capacity(ends.len());
+        let mut next = ends.iter().peekable();
         for t in l..rows {
             let mut g = 0.0;
             let w_t = &self.weights[t * n..(t + 1) * n];
@@ -79,9 +96,12 @@ impl BookBuilder {
                 let back = &self.weights[(t - h) * n..(t - h + 1) * n];
                 linear[h - 1].push(sigma * g / h as f64, f64::from(l1_distance(w_t, back)) / h as f64);
             }
+            while next.peek().is_some_and(|&&end| end == t + 2) {
+                out.push(linear.clone());
+                next.next();
+            }
         }
-        let quantile = q.map(|q| self.quantile_book(panel, fdm, q, l, sigma)).unwrap_or_default();
-        PathBooks { linear, quantile }
+        out
     }
 
     /// The top-minus-bottom quantile book.

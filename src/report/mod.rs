@@ -2,10 +2,12 @@
 //! bytes; [`write_atomically`] puts them in place only once all are written.
 
 mod csv_tables;
+mod plan;
 mod summary;
 mod terminal;
 
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
+pub use plan::{plan_csv, plan_json, plan_terminal};
 pub use summary::{CAUTION, Summary, summary_json};
 pub use terminal::{period_word, terminal_summary};
 

@@ -1,0 +1,140 @@
+//! Outputs of `lagfold plan`: `plan.json`, `plan.csv` and the terminal table.
+
+use super::summary::CAUTION;
+use super::terminal::period_word;
+use crate::measure::rules::Rule;
+use crate::plan::PlanResult;
+use crate::scenario::Scenario;
+use crate::study::{RuleStats, RulesOut};
+use serde::Serialize;
+use std::fmt::Write;
+
+const RULES: [Rule; 4] = [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr];
+
+fn rule<'a>(r: &'a RulesOut, rule: Rule) -> &'a RuleStats {
+    match rule {
+        Rule::Peak => &r.peak,
+        Rule::Formula => &r.formula,
+        Rule::Fitted => &r.fitted,
+        Rule::NetIr => &r.net_ir,
+    }
+}
+
+#[derive(Serialize)]
+struct PlanJson<'a> {
+    tool: &'static str,
+    version: &'static str,
+    scenario: &'a Scenario,
+    #[serde(flatten)]
+    plan: &'a PlanResult,
+    caution: &'static str,
+}
+
+/// `plan.json`: the scenario (at the longest history), the grid and the answer.
+pub fn plan_json(scenario: &Scenario, plan: &PlanResult) -> Vec<u8> {
+    let doc = PlanJson { tool: "lagfold", version: env!("CARGO_PKG_VERSION"), scenario, plan, caution: CAUTION };
+    let mut v = serde_json::to_vec_pretty(&doc).expect("plan serialises");
+    v.push(b'\n');
+    v
+}
+
+/// `plan.csv`: one row per grid point and rule.
+pub fn plan_csv(plan: &PlanResult) -> Vec<u8> {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    w.write_record([
+        "history",
+        "assets",
+        "rule",
+        "hit_rate",
+        "hit_rate_se",
+        "near_hit_rate",
+        "near_hit_rate_se",
+        "near_best_rate",
+        "near_best_rate_se",
+        "regret_rel_mean",
+        "regret_rel_mean_se",
+    ])
+    .expect("in-memory CSV");
+    let f = |x: f64| format!("{x:.6}");
+    for p in &plan.grid {
+        for r in RULES {
+            let s = rule(&p.rules, r);
+            w.write_record([
+                p.history.to_string(),
+                p.assets.to_string(),
+                r.name().to_string(),
+                f(s.hit_rate),
+                f(s.hit_rate_se),
+                f(s.near_hit_rate),
+                f(s.near_hit_rate_se),
+                f(s.near_best_rate),
+                f(s.near_best_rate_se),
+                f(s.regret_rel_mean),
+                s.regret_rel_mean_se.map(f).unwrap_or_default(),
+            ])
+            .expect("in-memory CSV");
+        }
+    }
+    w.into_inner().expect("in-memory CSV")
+}
+
+/// The terminal table and the answer in words.
+pub fn plan_terminal(scenario: &Scenario, plan: &PlanResult) -> String {
+    let unit = period_word(scenario.periods_per_year);
+    let years = |t: usize| t as f64 / scenario.periods_per_year;
+    let mut out = String::new();
+    let _ = writeln!(out, "lagfold plan · {}", scenario.name);
+    let _ = writeln!(
+        out,
+        "  {} assets; {} paths at every history (the same paths cut shorter); seed {}\n",
+        scenario.assets, plan.paths, plan.seed
+    );
+    let _ =
+        writeln!(out, "Within ±1 of the best choice (± one Monte Carlo standard error), and the peak rule's regret");
+    let _ = writeln!(
+        out,
+        "  {:>16}  {:>13}  {:>13}  {:>13}  {:>13}  {:>13}",
+        format!("history ({unit}s)"),
+        "peak",
+        "formula",
+        "fitted",
+        "net_ir",
+        "peak regret"
+    );
+    let cell = |s: &RuleStats| format!("{:.1}% ± {:.1}", 100.0 * s.near_hit_rate, 100.0 * s.near_hit_rate_se);
+    for p in &plan.grid {
+        let _ = writeln!(
+            out,
+            "  {:>16}  {:>13}  {:>13}  {:>13}  {:>13}  {:>13}",
+            format!("{} ({:.1} y)", p.history, years(p.history)),
+            cell(&p.rules.peak),
+            cell(&p.rules.formula),
+            cell(&p.rules.fitted),
+            cell(&p.rules.net_ir),
+            format!("{:.2}% of best", 100.0 * p.rules.peak.regret_rel_mean)
+        );
+    }
+    match &plan.answer {
+        Some(a) => {
+            let high = a.history_high.map_or("beyond the grid".to_string(), |h| format!("{h}"));
+            let _ = writeln!(
+                out,
+                "\nTarget {}: met from {} {unit}s ({:.1} years) on this grid; allowing two Monte Carlo standard errors either way, from {} to {}.",
+                plan.target,
+                a.history,
+                years(a.history),
+                a.history_low,
+                high
+            );
+        }
+        None => {
+            let _ = writeln!(
+                out,
+                "\nTarget {}: no history on the grid meets it; try longer histories (--histories) or more breadth.",
+                plan.target
+            );
+        }
+    }
+    let _ = writeln!(out, "\n{CAUTION}");
+    out
+}
