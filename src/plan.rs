@@ -204,19 +204,10 @@ fn prefix_outcomes(w: &mut Worker, setup: &Setup, path: u64, histories: &[usize]
         .collect()
 }
 
-fn rule_of<'a>(r: &'a RulesOut, rule: Rule) -> &'a RuleStats {
-    match rule {
-        Rule::Peak => &r.peak,
-        Rule::Formula => &r.formula,
-        Rule::Fitted => &r.fitted,
-        Rule::NetIr => &r.net_ir,
-    }
-}
-
 fn answer(grid: &[PlanPoint], goal: Goal) -> Option<Answer> {
     let first = |shift: f64| {
         grid.iter().find(|p| {
-            let (x, se) = goal.metric.of(rule_of(&p.rules, goal.rule));
+            let (x, se) = goal.metric.of(p.rules.get(goal.rule));
             // `shift` standard errors in the goal's favour (up for >=, down for <=).
             goal.met_by(x + shift * se * if goal.at_least { 1.0 } else { -1.0 })
         })

@@ -248,6 +248,18 @@ pub struct RulesOut {
     pub net_ir: RuleStats,
 }
 
+impl RulesOut {
+    /// One rule's record.
+    pub fn get(&self, rule: Rule) -> &RuleStats {
+        match rule {
+            Rule::Peak => &self.peak,
+            Rule::Formula => &self.formula,
+            Rule::Fitted => &self.fitted,
+            Rule::NetIr => &self.net_ir,
+        }
+    }
+}
+
 /// The whole study.
 #[derive(Debug, Clone, Serialize)]
 pub struct StudyResult {

@@ -5,20 +5,11 @@ use super::terminal::period_word;
 use crate::measure::rules::Rule;
 use crate::plan::PlanResult;
 use crate::scenario::Scenario;
-use crate::study::{RuleStats, RulesOut};
+use crate::study::RuleStats;
 use serde::Serialize;
 use std::fmt::Write;
 
 const RULES: [Rule; 4] = [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr];
-
-fn rule<'a>(r: &'a RulesOut, rule: Rule) -> &'a RuleStats {
-    match rule {
-        Rule::Peak => &r.peak,
-        Rule::Formula => &r.formula,
-        Rule::Fitted => &r.fitted,
-        Rule::NetIr => &r.net_ir,
-    }
-}
 
 #[derive(Serialize)]
 struct PlanJson<'a> {
@@ -58,7 +49,7 @@ pub fn plan_csv(plan: &PlanResult) -> Vec<u8> {
     let f = |x: f64| format!("{x:.6}");
     for p in &plan.grid {
         for r in RULES {
-            let s = rule(&p.rules, r);
+            let s = p.rules.get(r);
             w.write_record([
                 p.history.to_string(),
                 p.assets.to_string(),
