@@ -1,3 +1,4 @@
+#![allow(dead_code)] // each bench uses its own part of these helpers
 //! Shared set-up for the benches: the default preset at the bench's size.
 
 use lagfold::scenario::{self, Overrides, presets};
