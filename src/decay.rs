@@ -211,6 +211,40 @@ impl DecayCurve {
         }
     }
 
+    /// `IC` at a real lag `x ≥ 1`: the family's formula, a step that ends
+    /// after `length`, or the table interpolated linearly (zero beyond it).
+    /// Used to stretch or squeeze a curve in time.
+    pub fn ic_at(&self, x: f64) -> f64 {
+        match self.shape {
+            DecayShape::Exponential { ic1, half_life } => ic1 * (-(x - 1.0) / half_life).exp2(),
+            DecayShape::Linear { ic1, zero_at } => {
+                if x < zero_at {
+                    ic1 * (zero_at - x) / (zero_at - 1.0)
+                } else {
+                    0.0
+                }
+            }
+            DecayShape::Hump { peak, peak_lag, shape } => {
+                let r = x / peak_lag;
+                peak * r.powf(shape) * (shape * (1.0 - r)).exp()
+            }
+            DecayShape::Power { ic1, exponent } => ic1 * x.powf(-exponent),
+            DecayShape::Step { ic, length } => {
+                if x <= length as f64 + 1e-9 {
+                    ic
+                } else {
+                    0.0
+                }
+            }
+            DecayShape::Table { ref values } => {
+                let i = (x - 1.0).floor().max(0.0) as usize;
+                let frac = (x - 1.0) - i as f64;
+                let at = |j: usize| values.get(j).copied().unwrap_or(0.0);
+                at(i) + frac * (at(i + 1) - at(i))
+            }
+        }
+    }
+
     /// The last lag with a non-zero IC, for families that end by themselves.
     pub fn natural_end(&self) -> Option<usize> {
         match self.shape {
@@ -253,6 +287,23 @@ mod tests {
         assert!((l.ic(5) - 0.01).abs() < 1e-15);
         let s = DecayCurve::step(0.02, 3).unwrap();
         assert_eq!((s.ic(3), s.ic(4)), (0.02, 0.0));
+    }
+
+    #[test]
+    fn real_lags_agree_with_integer_lags_and_interpolate_tables() {
+        for c in [
+            DecayCurve::exponential(0.05, 3.0).unwrap(),
+            DecayCurve::hump(0.03, 4.0, 2.0).unwrap(),
+            DecayCurve::linear(0.05, 6.0).unwrap(),
+            DecayCurve::power(0.04, 0.7).unwrap(),
+            DecayCurve::step(0.02, 3).unwrap(),
+        ] {
+            for k in 1..10 {
+                assert!((c.ic_at(k as f64) - c.ic(k)).abs() < 1e-15, "{c:?} lag {k}");
+            }
+        }
+        let t = DecayCurve::table(vec![0.04, 0.02]).unwrap();
+        assert_eq!((t.ic_at(1.5), t.ic_at(2.5), t.ic_at(4.0)), (0.03, 0.01, 0.0));
     }
 
     #[test]

@@ -17,5 +17,6 @@ pub mod report;
 pub mod rng;
 pub mod scenario;
 pub mod stats;
+pub mod stress;
 pub mod study;
 pub mod truth;

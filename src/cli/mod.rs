@@ -5,6 +5,7 @@ mod plan;
 mod presets_cmd;
 mod progress;
 mod run;
+mod stress;
 
 use clap::{Parser, Subcommand};
 use std::io::Write;
@@ -27,6 +28,8 @@ pub enum Command {
     Demo(run::StudyArgs),
     /// How much history is needed: every rule's record over a grid of history lengths.
     Plan(plan::PlanArgs),
+    /// What a choice made under the assumed decay costs when another curve is true.
+    Stress(stress::StressArgs),
     /// List the built-in presets, or print one as TOML.
     Presets(presets_cmd::PresetsArgs),
 }
@@ -68,6 +71,7 @@ pub fn main() -> i32 {
         Command::Run(a) => run::run(&a),
         Command::Demo(a) => run::demo(&a),
         Command::Plan(a) => plan::run(&a),
+        Command::Stress(a) => stress::run(&a),
         Command::Presets(a) => presets_cmd::run(&a),
     };
     match result {

@@ -5,7 +5,7 @@ mod locate;
 pub mod presets;
 mod raw;
 
-pub use raw::{RawPortfolio, RawScenario, RawTails};
+pub use raw::{RawAlternative, RawPortfolio, RawScenario, RawStress, RawTails};
 
 use crate::decay::{DecayCurve, out_of_range};
 use crate::error::{InputError, ScenarioError};
@@ -69,6 +69,10 @@ pub struct Scenario {
     pub decay: DecayCurve,
     /// Holding-period portfolios.
     pub portfolio: PortfolioSpec,
+    /// The user's alternative true curves for `lagfold stress`.
+    pub alternatives: Vec<(String, DecayCurve)>,
+    /// Whether they replace the default alternatives.
+    pub replace_default_alternatives: bool,
 }
 
 /// Holding-period portfolio settings (validated).
@@ -221,6 +225,20 @@ impl Scenario {
                 return Err(out_of_range("portfolio.reference_paths", p.reference_paths, "at least 10"));
             },
         };
+        let mut alternatives = Vec::with_capacity(raw.stress.alternatives.len());
+        for (i, a) in raw.stress.alternatives.iter().enumerate() {
+            let prefix = format!("stress.alternatives[{i}]");
+            if a.name.trim().is_empty() {
+                return Err(out_of_range(&format!("{prefix}.name"), "\"\"", "a non-empty name"));
+            }
+            let curve = DecayCurve::new(a.decay.clone()).map_err(|e| match e {
+                ScenarioError::OutOfRange { key, value, allowed } => {
+                    ScenarioError::OutOfRange { key: format!("{prefix}.{key}"), value, allowed }
+                }
+                other => other,
+            })?;
+            alternatives.push((a.name.clone(), curve));
+        }
         let truncation = match raw.truncation {
             Some(0) => return Err(out_of_range("truncation", 0, "at least 1")),
             Some(k) if k > 20_000 => return Err(out_of_range("truncation", k, "at most 20000")),
@@ -246,6 +264,8 @@ impl Scenario {
             rank_ic: raw.rank_ic,
             decay,
             portfolio,
+            alternatives,
+            replace_default_alternatives: raw.stress.replace_defaults,
         })
     }
 }

@@ -59,6 +59,31 @@ pub struct RawScenario {
     /// Holding-period portfolios.
     #[serde(default)]
     pub portfolio: RawPortfolio,
+    /// Alternative true curves for `lagfold stress`.
+    #[serde(default)]
+    pub stress: RawStress,
+}
+
+/// `[stress]`: alternative true curves (`[[stress.alternatives]]`).
+#[derive(Debug, Clone, Default, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawStress {
+    /// Replace the default alternatives (faster, slower, hump, reversal) instead of adding to them.
+    #[serde(default)]
+    pub replace_defaults: bool,
+    /// The user's alternatives.
+    #[serde(default)]
+    pub alternatives: Vec<RawAlternative>,
+}
+
+/// One alternative true curve.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawAlternative {
+    /// Its name in tables.
+    pub name: String,
+    /// The curve, written like `[decay]`.
+    pub decay: DecayShape,
 }
 
 /// Holding-period portfolios (`[portfolio]`).

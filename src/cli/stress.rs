@@ -1,0 +1,43 @@
+//! `lagfold stress <scenario>`: what a choice made under the assumed decay
+//! curve gives up when another curve is true.
+
+use super::run::{StudyArgs, read_scenario, threads};
+use super::{Failure, print, progress};
+use crate::report;
+use crate::stress;
+use std::path::{Path, PathBuf};
+
+/// Options of `stress`.
+#[derive(Debug, clap::Args)]
+pub struct StressArgs {
+    /// Scenario file (TOML), or the name of a built-in preset.
+    pub scenario: PathBuf,
+    /// The common knobs (`--assets`, `--history`, `--horizons` shape the truth;
+    /// `--cost-bps` sets the cost of the net IR).
+    #[command(flatten)]
+    pub study: StudyArgs,
+}
+
+/// `lagfold stress`.
+pub fn run(a: &StressArgs) -> Result<(), Failure> {
+    let mut scenario = read_scenario(&a.scenario, &a.study.overrides())?;
+    if let Some(&c) = a.study.cost_bps.first() {
+        scenario.portfolio.cost_bps = crate::scenario::check_cost_bps("--cost-bps", c).map_err(Failure::input)?;
+    }
+    let out_dir =
+        a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-stress", scenario.name)));
+    let n_curves = 1 + if scenario.replace_default_alternatives { 0 } else { 4 } + scenario.alternatives.len();
+    let bar = progress::bar(n_curves, a.study.quiet, "curves");
+    let origin = a.scenario.display().to_string();
+    let result = stress::run(&scenario, threads(&a.study), &|d| bar.set_position(d as u64))
+        .map_err(|(name, e)| Failure::input(format!("{origin}: curve `{name}`: {e}")))?;
+    bar.finish_and_clear();
+    let files = [("stress.json", report::stress_json(&scenario, &result)), ("stress.csv", report::stress_csv(&result))];
+    report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
+    if !a.study.quiet {
+        let mut text = report::stress_terminal(&scenario, &result);
+        text.push_str(&format!("\nOutputs: {} (stress.json, stress.csv)\n", out_dir.display()));
+        print(&text)?;
+    }
+    Ok(())
+}
