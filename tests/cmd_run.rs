@@ -148,6 +148,27 @@ fn portfolio_truth_net_rule_and_cost_sweep_are_written() {
 }
 
 #[test]
+fn a_file_with_lists_runs_the_grid_and_writes_one_row_per_point_and_rule() {
+    let tmp = tempfile::tempdir().unwrap();
+    let file = tmp.path().join("grid.toml");
+    std::fs::write(
+        &file,
+        "assets = [100, 200]\nhistory = 50\nhorizons = 6\npaths = 30\n[decay]\nfamily = \"exponential\"\n\
+         ic1 = 0.05\nhalf_life = [2, 3, 5]\n[portfolio]\nreference_paths = 10\n",
+    )
+    .unwrap();
+    let a = lagfold().arg("run").arg(&file).arg("--out").arg(tmp.path().join("o")).assert().success();
+    let out = String::from_utf8(a.get_output().stdout.clone()).unwrap();
+    assert!(out.contains("assets = 200, decay.half_life = 5"), "{out}");
+    let csv = std::fs::read_to_string(tmp.path().join("o/sweep.csv")).unwrap();
+    assert!(csv.starts_with("assets,decay.half_life,true_best_horizon,"));
+    assert_eq!(csv.lines().count(), 1 + 6 * 4);
+    let json: Value = serde_json::from_slice(&std::fs::read(tmp.path().join("o/sweep.json")).unwrap()).unwrap();
+    assert_eq!(json["grid"].as_array().unwrap().len(), 6);
+    assert!(json["grid"][0]["rules"]["peak"]["near_hit_rate"].is_number());
+}
+
+#[test]
 fn outputs_are_byte_identical_on_one_and_two_threads() {
     let tmp = tempfile::tempdir().unwrap();
     for threads in ["1", "2"] {

@@ -4,7 +4,7 @@
 use super::{Failure, print, progress};
 use crate::portfolio::PortfolioTruth;
 use crate::report::{self, Summary};
-use crate::scenario::{self, Overrides, Scenario, presets};
+use crate::scenario::{self, Overrides, Scenario, presets, sweep};
 use crate::study::{self, Setup};
 use std::path::{Path, PathBuf};
 
@@ -71,21 +71,66 @@ pub fn threads(a: &StudyArgs) -> usize {
 
 /// Reads a scenario from a file, or from a preset when no such file exists.
 pub fn read_scenario(path: &Path, ov: &Overrides) -> Result<Scenario, Failure> {
+    let (text, origin, stem) = read_text(path)?;
+    scenario::load(&text, &origin, &stem, ov).map_err(Failure::input)
+}
+
+/// The text of a scenario file (or preset), its origin for messages and its default name.
+fn read_text(path: &Path) -> Result<(String, String, String), Failure> {
     let name = path.to_string_lossy();
     if !path.exists() && presets::ALL.iter().any(|(n, _)| *n == name) {
-        return scenario::load(presets::text(&name).map_err(Failure::input)?, &format!("preset {name}"), &name, ov)
-            .map_err(Failure::input);
+        let text = presets::text(&name).map_err(Failure::input)?;
+        return Ok((text.to_string(), format!("preset {name}"), name.into_owned()));
     }
     let text = std::fs::read_to_string(path)
         .map_err(|e| Failure::input(crate::error::InputError::Read { path: path.to_path_buf(), source: e }))?;
     let stem = path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| "scenario".into());
-    scenario::load(&text, &path.display().to_string(), &stem, ov).map_err(Failure::input)
+    Ok((text, path.display().to_string(), stem))
 }
 
-/// `lagfold run`.
+/// `lagfold run`: one scenario, or the grid of a sweep file.
 pub fn run(a: &RunArgs) -> Result<(), Failure> {
-    let scenario = read_scenario(&a.scenario, &a.study.overrides())?;
-    execute(scenario, &a.study, &a.scenario.display().to_string())
+    let (text, origin, stem) = read_text(&a.scenario)?;
+    let axes = sweep::axes(&text, &origin).map_err(Failure::input)?;
+    if axes.is_empty() {
+        let scenario = scenario::load(&text, &origin, &stem, &a.study.overrides()).map_err(Failure::input)?;
+        return execute(scenario, &a.study, &origin);
+    }
+    let points = sweep::expand(&text, &origin, &stem, &a.study.overrides(), &axes).map_err(Failure::input)?;
+    run_sweep(&points, &a.study, &origin)
+}
+
+/// Runs every grid point of a sweep: reference truth and study per point,
+/// one progress bar over all the study paths, one long table at the end.
+fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(), Failure> {
+    let name = &points[0].scenario.name;
+    let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{name}-sweep")));
+    let threads = threads(a);
+    let total: usize = points.iter().map(|p| p.scenario.paths).sum();
+    let bar = progress::bar(total, a.quiet, "sweep");
+    let mut done = 0;
+    let mut rows = Vec::with_capacity(points.len());
+    for p in points {
+        let mut s = p.scenario.clone();
+        if let [one] = a.cost_bps[..] {
+            s.portfolio.cost_bps = scenario::check_cost_bps("--cost-bps", one).map_err(Failure::input)?;
+        }
+        let label = p.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
+        let setup = Setup::new(s).map_err(|e| Failure::input(format!("{origin} (grid point {label}): {e}")))?;
+        let portfolio = PortfolioTruth::compute(&setup, threads, &|_| {});
+        let result = study::run(&setup, &portfolio, &[], threads, &|d| bar.set_position((done + d) as u64));
+        done += setup.scenario.paths;
+        rows.push(report::SweepPoint::new(p, &setup, &portfolio, result));
+    }
+    bar.finish_and_clear();
+    let files = [("sweep.json", report::sweep_json(&rows)), ("sweep.csv", report::sweep_csv(&rows))];
+    report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
+    if !a.quiet {
+        let mut text = report::sweep_terminal(&rows);
+        text.push_str(&format!("\nOutputs: {} (sweep.json, sweep.csv)\n", out_dir.display()));
+        print(&text)?;
+    }
+    Ok(())
 }
 
 /// `lagfold demo`.

@@ -5,12 +5,14 @@ mod csv_tables;
 mod plan;
 mod stress;
 mod summary;
+mod sweep;
 mod terminal;
 
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
 pub use plan::{plan_csv, plan_json, plan_terminal};
 pub use stress::{stress_csv, stress_json, stress_terminal};
 pub use summary::{CAUTION, Summary, summary_json};
+pub use sweep::{SweepPoint, sweep_csv, sweep_json, sweep_terminal};
 pub use terminal::{period_word, terminal_summary};
 
 use std::io::Write;

@@ -4,6 +4,7 @@
 mod locate;
 pub mod presets;
 mod raw;
+pub mod sweep;
 
 pub use raw::{RawAlternative, RawPortfolio, RawScenario, RawStress, RawTails};
 

@@ -1,0 +1,135 @@
+//! Outputs of a sweep: `sweep.json`, the long `sweep.csv` (one row per grid
+//! point and rule) and the terminal table.
+
+use super::summary::CAUTION;
+use crate::measure::rules::Rule;
+use crate::portfolio::PortfolioTruth;
+use crate::scenario::sweep::Point;
+use crate::study::{RulesOut, Setup, StudyResult};
+use serde::Serialize;
+use std::fmt::Write;
+
+const RULES: [Rule; 4] = [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr];
+
+/// One grid point's results.
+#[derive(Debug, Serialize)]
+pub struct SweepPoint {
+    /// `key = value` of every swept field.
+    pub at: Vec<(String, String)>,
+    /// True optimal horizon (1-based).
+    pub best_horizon: usize,
+    /// Its true horizon IC.
+    pub best_horizon_ic: f64,
+    /// True best holding length by net IR.
+    pub best_holding: usize,
+    /// Paths of the study.
+    pub paths: usize,
+    /// Every rule's record.
+    pub rules: RulesOut,
+}
+
+impl SweepPoint {
+    /// Keeps what the tables need from a grid point's run.
+    pub fn new(p: &Point, setup: &Setup, portfolio: &PortfolioTruth, study: StudyResult) -> Self {
+        Self {
+            at: p.at.clone(),
+            best_horizon: setup.truth.best_horizon,
+            best_horizon_ic: setup.truth.h(setup.truth.best_horizon),
+            best_holding: portfolio.linear.best_holding,
+            paths: study.paths,
+            rules: study.rules,
+        }
+    }
+}
+
+#[derive(Serialize)]
+struct SweepJson<'a> {
+    tool: &'static str,
+    version: &'static str,
+    grid: &'a [SweepPoint],
+    caution: &'static str,
+}
+
+/// `sweep.json`.
+pub fn sweep_json(rows: &[SweepPoint]) -> Vec<u8> {
+    let doc = SweepJson { tool: "lagfold", version: env!("CARGO_PKG_VERSION"), grid: rows, caution: CAUTION };
+    let mut v = serde_json::to_vec_pretty(&doc).expect("sweep serialises");
+    v.push(b'\n');
+    v
+}
+
+/// `sweep.csv`: the swept fields, then one row per rule.
+pub fn sweep_csv(rows: &[SweepPoint]) -> Vec<u8> {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    let mut header: Vec<String> =
+        rows.first().map(|r| r.at.iter().map(|(k, _)| k.clone()).collect()).unwrap_or_default();
+    header.extend(
+        [
+            "true_best_horizon",
+            "true_best_holding",
+            "rule",
+            "hit_rate",
+            "hit_rate_se",
+            "near_hit_rate",
+            "near_hit_rate_se",
+            "near_best_rate",
+            "near_best_rate_se",
+            "regret_rel_mean",
+            "regret_rel_mean_se",
+        ]
+        .map(String::from),
+    );
+    w.write_record(&header).expect("in-memory CSV");
+    let f = |x: f64| format!("{x:.6}");
+    for r in rows {
+        for rule in RULES {
+            let s = r.rules.get(rule);
+            let mut row: Vec<String> = r.at.iter().map(|(_, v)| v.clone()).collect();
+            row.extend([
+                r.best_horizon.to_string(),
+                r.best_holding.to_string(),
+                rule.name().to_string(),
+                f(s.hit_rate),
+                f(s.hit_rate_se),
+                f(s.near_hit_rate),
+                f(s.near_hit_rate_se),
+                f(s.near_best_rate),
+                f(s.near_best_rate_se),
+                f(s.regret_rel_mean),
+                s.regret_rel_mean_se.map(f).unwrap_or_default(),
+            ]);
+            w.write_record(&row).expect("in-memory CSV");
+        }
+    }
+    w.into_inner().expect("in-memory CSV")
+}
+
+/// The terminal table: one line per grid point.
+pub fn sweep_terminal(rows: &[SweepPoint]) -> String {
+    let mut out = String::from("lagfold sweep: within ±1 of the best choice (± one Monte Carlo standard error)\n");
+    let label = |r: &SweepPoint| r.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
+    let width = rows.iter().map(|r| label(r).chars().count()).max().unwrap_or(10).max(10);
+    let _ = writeln!(
+        out,
+        "  {:<width$}  {:>5}  {:>13}  {:>13}  {:>13}  {:>13}",
+        "grid point", "best", "peak", "formula", "fitted", "net_ir"
+    );
+    let cell = |r: &SweepPoint, rule| {
+        let s = r.rules.get(rule);
+        format!("{:.1}% ± {:.1}", 100.0 * s.near_hit_rate, 100.0 * s.near_hit_rate_se)
+    };
+    for r in rows {
+        let _ = writeln!(
+            out,
+            "  {:<width$}  {:>5}  {:>13}  {:>13}  {:>13}  {:>13}",
+            label(r),
+            r.best_horizon,
+            cell(r, Rule::Peak),
+            cell(r, Rule::Formula),
+            cell(r, Rule::Fitted),
+            cell(r, Rule::NetIr)
+        );
+    }
+    let _ = writeln!(out, "\n{CAUTION}");
+    out
+}
