@@ -1,0 +1,203 @@
+//! Stage 4: the Monte Carlo study (MODEL.md §4). Many independent histories of
+//! one scenario; each path's stream comes from `(seed, path index)` alone, and
+//! outcomes are folded in path order, so the result is byte-identical whatever
+//! the thread count.
+
+mod outcomes;
+mod records;
+mod worker;
+
+pub use outcomes::{Outcomes, PathOutcome};
+pub use records::{RuleStats, RulesOut, Target, net_ir_rule, rule_stats};
+pub use worker::{Worker, run_in_order, simulate_all};
+
+use crate::error::ScenarioError;
+use crate::generate::Generator;
+use crate::measure::fit::Family;
+use crate::measure::rules::Rule;
+use crate::model::Model;
+use crate::portfolio::PortfolioTruth;
+use crate::scenario::Scenario;
+use crate::stats::{BAND_LEVELS, Moments, quantile_sorted};
+use crate::truth::{Truth, argmax1, near_set};
+use serde::Serialize;
+use std::collections::BTreeMap;
+
+/// A validated scenario with everything derived from it.
+#[derive(Debug, Clone)]
+pub struct Setup {
+    /// The scenario.
+    pub scenario: Scenario,
+    /// Calibrated model.
+    pub model: Model,
+    /// The truth.
+    pub truth: Truth,
+    /// The path generator.
+    pub generator: Generator,
+}
+
+impl Setup {
+    /// Calibrates the model, computes the truth and builds the generator.
+    ///
+    /// # Errors
+    /// Infeasible variance or no positive horizon IC.
+    pub fn new(scenario: Scenario) -> Result<Self, ScenarioError> {
+        let model = Model::new(&scenario)?;
+        let truth = Truth::new(&model, scenario.horizons, scenario.near_best_tolerance)?;
+        let generator = Generator::new(&model, scenario.assets, scenario.history, scenario.tails);
+        Ok(Self { scenario, model, truth, generator })
+    }
+}
+
+/// Mean and quantile bands of a measured curve across paths.
+#[derive(Debug, Clone, Serialize)]
+pub struct CurveStats {
+    /// Mean over paths (index 0 = lag or horizon 1).
+    pub mean: Vec<f64>,
+    /// Monte Carlo standard error of that mean.
+    pub mean_se: Vec<Option<f64>>,
+    /// Bands at 5, 25, 50, 75 and 95 %, one vector per level.
+    pub quantiles: Vec<Vec<f64>>,
+}
+
+/// The whole study.
+#[derive(Debug, Clone, Serialize)]
+pub struct StudyResult {
+    /// Paths simulated.
+    pub paths: usize,
+    /// Master seed.
+    pub seed: u64,
+    /// Standard-error method of the per-path estimators.
+    pub se_method: String,
+    /// Results per rule.
+    pub rules: RulesOut,
+    /// How often the fitted rule chose each family.
+    pub fitted_families: BTreeMap<String, u64>,
+    /// Measured mean lagged IC across paths.
+    pub lagged_ic: CurveStats,
+    /// Measured mean horizon IC across paths.
+    pub horizon_ic: CurveStats,
+    /// Measured mean rank lagged IC (when `rank_ic`).
+    pub rank_lagged_ic: Option<CurveStats>,
+    /// One-way cost of the net figures, basis points.
+    pub cost_bps: f64,
+    /// Each history's measured annualised net IR of the linear book per holding length.
+    pub net_ir: CurveStats,
+    /// The net optimum at each cost of `--cost-bps` (empty without it).
+    pub cost_sweep: Vec<SweepRow>,
+}
+
+/// Runs every path on `threads` threads, reporting paths done to `progress`.
+/// `sweep` lists one-way costs (basis points) at which the net optimum is
+/// also reported (truth from the reference sums, measured from each path's).
+pub fn run(
+    setup: &Setup,
+    portfolio: &PortfolioTruth,
+    sweep: &[f64],
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> StudyResult {
+    let outcomes = simulate_all(setup, threads, progress);
+    let mut result = aggregate(setup, portfolio, &outcomes);
+    result.cost_sweep = sweep.iter().map(|&bps| sweep_row(setup, portfolio, bps, &outcomes)).collect();
+    result
+}
+
+/// The true and the measured net optimum at one cost.
+#[derive(Debug, Clone, Serialize)]
+pub struct SweepRow {
+    /// One-way cost, basis points.
+    pub cost_bps: f64,
+    /// True best holding length (1-based).
+    pub true_best_holding: usize,
+    /// True annualised net IR there.
+    pub true_net_ir: f64,
+    /// Its Monte Carlo standard error.
+    pub true_net_ir_se: f64,
+    /// Holding lengths within the tolerance of the best.
+    pub true_near_best: Vec<usize>,
+    /// The net-IR rule at this cost.
+    pub measured: RuleStats,
+}
+
+fn sweep_row(setup: &Setup, portfolio: &PortfolioTruth, bps: f64, outcomes: &Outcomes) -> SweepRow {
+    let (c, ppy) = (bps * 1e-4, setup.scenario.periods_per_year);
+    let (ir, se) = crate::portfolio::truth::net_ir_at(&portfolio.linear_sums, &portfolio.linear_paths, c, ppy);
+    let net_vol: Vec<f64> = portfolio.linear_sums.iter().map(|s| s.net_mean_sd(c).1).collect();
+    let best = argmax1(&ir);
+    SweepRow {
+        cost_bps: bps,
+        true_best_holding: best,
+        true_net_ir: ir[best - 1],
+        true_net_ir_se: se[best - 1],
+        true_near_best: near_set(&ir, setup.scenario.near_best_tolerance),
+        measured: net_ir_rule(setup, &ir, &net_vol, c, outcomes),
+    }
+}
+
+fn curve_stats_owned(rows: Vec<Vec<f64>>, len: usize) -> CurveStats {
+    curve_stats(|p| rows[p].as_slice(), rows.len(), len)
+}
+
+fn curve_stats<'a>(rows: impl Fn(usize) -> &'a [f64], paths: usize, len: usize) -> CurveStats {
+    let mut moments = vec![Moments::default(); len];
+    let mut columns = vec![Vec::with_capacity(paths); len];
+    for p in 0..paths {
+        for (k, &v) in rows(p).iter().enumerate() {
+            moments[k].push(v);
+            columns[k].push(v);
+        }
+    }
+    columns.iter_mut().for_each(|c| c.sort_by(f64::total_cmp));
+    CurveStats {
+        mean: moments.iter().map(Moments::mean).collect(),
+        mean_se: moments.iter().map(Moments::se).collect(),
+        quantiles: BAND_LEVELS.iter().map(|&q| columns.iter().map(|c| quantile_sorted(c, q)).collect()).collect(),
+    }
+}
+
+/// Folds path outcomes (in path order) into the study's results.
+pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes) -> StudyResult {
+    let l = setup.scenario.horizons;
+    let t = &setup.truth;
+    let target = Target { truth: &t.horizon_ic, best: t.best_horizon, near: &t.near_best };
+    let stats = |r: Rule, i: usize| {
+        rule_stats(
+            r.describe(),
+            &target,
+            outcomes.paths(),
+            |p| outcomes.choices(p).horizon[i],
+            |p, n| outcomes.horizon(p)[n - 1],
+        )
+    };
+    let c = portfolio.cost_bps * 1e-4;
+    let ppy = setup.scenario.periods_per_year;
+    let mut fitted_families: BTreeMap<String, u64> = Family::ALL.iter().map(|f| (f.name().to_string(), 0)).collect();
+    for p in 0..outcomes.paths() {
+        *fitted_families.entry(outcomes.choices(p).family.name().to_string()).or_default() += 1;
+    }
+    StudyResult {
+        paths: outcomes.paths(),
+        seed: setup.scenario.seed,
+        se_method: "Newey-West (Bartlett) with max(2n, floor(4(m/100)^(2/9))) lags for horizon n over m dates; lagged ICs use n = 1".into(),
+        rules: RulesOut {
+            peak: stats(Rule::Peak, 0),
+            formula: stats(Rule::Formula, 1),
+            fitted: stats(Rule::Fitted, 2),
+            net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear.net_vol, c, outcomes),
+        },
+        cost_bps: portfolio.cost_bps,
+        net_ir: curve_stats_owned(
+            (0..outcomes.paths()).map(|p| outcomes.books(p).iter().map(|b| b.ir(c, ppy)).collect()).collect(),
+            l,
+        ),
+        cost_sweep: Vec::new(),
+        fitted_families,
+        lagged_ic: curve_stats(|p| outcomes.lagged(p), outcomes.paths(), l),
+        horizon_ic: curve_stats(|p| outcomes.horizon(p), outcomes.paths(), l),
+        rank_lagged_ic: setup
+            .scenario
+            .rank_ic
+            .then(|| curve_stats(|p| outcomes.rank_lagged(p), outcomes.paths(), l)),
+    }
+}
