@@ -3,6 +3,7 @@
 
 mod csv_tables;
 mod plan;
+mod records;
 mod stress;
 mod summary;
 mod sweep;

@@ -1,69 +1,27 @@
 //! Outputs of `lagfold plan`: `plan.json`, `plan.csv` and the terminal table.
 
+use super::records::{RECORD_HEADER, RULES, document, record_cells};
 use super::summary::CAUTION;
 use super::terminal::period_word;
-use crate::measure::rules::Rule;
 use crate::plan::PlanResult;
 use crate::scenario::Scenario;
 use crate::study::RuleStats;
-use serde::Serialize;
 use std::fmt::Write;
-
-const RULES: [Rule; 4] = [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr];
-
-#[derive(Serialize)]
-struct PlanJson<'a> {
-    tool: &'static str,
-    version: &'static str,
-    scenario: &'a Scenario,
-    #[serde(flatten)]
-    plan: &'a PlanResult,
-    caution: &'static str,
-}
 
 /// `plan.json`: the scenario (at the longest history), the grid and the answer.
 pub fn plan_json(scenario: &Scenario, plan: &PlanResult) -> Vec<u8> {
-    let doc = PlanJson { tool: "lagfold", version: env!("CARGO_PKG_VERSION"), scenario, plan, caution: CAUTION };
-    let mut v = serde_json::to_vec_pretty(&doc).expect("plan serialises");
-    v.push(b'\n');
-    v
+    document(Some(scenario), plan)
 }
 
 /// `plan.csv`: one row per grid point and rule.
 pub fn plan_csv(plan: &PlanResult) -> Vec<u8> {
     let mut w = csv::Writer::from_writer(Vec::new());
-    w.write_record([
-        "history",
-        "assets",
-        "rule",
-        "hit_rate",
-        "hit_rate_se",
-        "near_hit_rate",
-        "near_hit_rate_se",
-        "near_best_rate",
-        "near_best_rate_se",
-        "regret_rel_mean",
-        "regret_rel_mean_se",
-    ])
-    .expect("in-memory CSV");
-    let f = |x: f64| format!("{x:.6}");
+    let header = ["history", "assets"].into_iter().chain(RECORD_HEADER);
+    w.write_record(header).expect("in-memory CSV");
     for p in &plan.grid {
         for r in RULES {
-            let s = p.rules.get(r);
-            w.write_record([
-                p.history.to_string(),
-                p.assets.to_string(),
-                r.name().to_string(),
-                f(s.hit_rate),
-                f(s.hit_rate_se),
-                f(s.near_hit_rate),
-                f(s.near_hit_rate_se),
-                f(s.near_best_rate),
-                f(s.near_best_rate_se),
-                f(s.regret_rel_mean),
-                s.regret_rel_mean_se.map(f).unwrap_or_default(),
-            ])
-            .expect("in-memory CSV");
+            let lead = [p.history.to_string(), p.assets.to_string()];
+            w.write_record(lead.into_iter().chain(record_cells(r, p.rules.get(r)))).expect("in-memory CSV");
         }
     }
     w.into_inner().expect("in-memory CSV")

@@ -1,28 +1,15 @@
 //! Outputs of `lagfold stress`: `stress.json`, `stress.csv` and the terminal tables.
 
+use super::records::document;
 use super::summary::CAUTION;
 use super::terminal::period_word;
 use crate::scenario::Scenario;
 use crate::stress::{RegretMatrix, StressResult};
-use serde::Serialize;
 use std::fmt::Write;
-
-#[derive(Serialize)]
-struct StressJson<'a> {
-    tool: &'static str,
-    version: &'static str,
-    scenario: &'a Scenario,
-    #[serde(flatten)]
-    stress: &'a StressResult,
-    caution: &'static str,
-}
 
 /// `stress.json`.
 pub fn stress_json(scenario: &Scenario, stress: &StressResult) -> Vec<u8> {
-    let doc = StressJson { tool: "lagfold", version: env!("CARGO_PKG_VERSION"), scenario, stress, caution: CAUTION };
-    let mut v = serde_json::to_vec_pretty(&doc).expect("stress serialises");
-    v.push(b'\n');
-    v
+    document(Some(scenario), stress)
 }
 
 /// `stress.csv`: one row per (what, chosen under, true curve).

@@ -1,6 +1,7 @@
 //! Outputs of a sweep: `sweep.json`, the long `sweep.csv` (one row per grid
 //! point and rule) and the terminal table.
 
+use super::records::{RECORD_HEADER, RULES, document, record_cells};
 use super::summary::CAUTION;
 use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
@@ -8,8 +9,6 @@ use crate::scenario::sweep::Point;
 use crate::study::{RulesOut, Setup, StudyResult};
 use serde::Serialize;
 use std::fmt::Write;
-
-const RULES: [Rule; 4] = [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr];
 
 /// One grid point's results.
 #[derive(Debug, Serialize)]
@@ -43,19 +42,13 @@ impl SweepPoint {
 }
 
 #[derive(Serialize)]
-struct SweepJson<'a> {
-    tool: &'static str,
-    version: &'static str,
+struct Grid<'a> {
     grid: &'a [SweepPoint],
-    caution: &'static str,
 }
 
 /// `sweep.json`.
 pub fn sweep_json(rows: &[SweepPoint]) -> Vec<u8> {
-    let doc = SweepJson { tool: "lagfold", version: env!("CARGO_PKG_VERSION"), grid: rows, caution: CAUTION };
-    let mut v = serde_json::to_vec_pretty(&doc).expect("sweep serialises");
-    v.push(b'\n');
-    v
+    document::<(), _>(None, &Grid { grid: rows })
 }
 
 /// `sweep.csv`: the swept fields, then one row per rule.
@@ -63,41 +56,14 @@ pub fn sweep_csv(rows: &[SweepPoint]) -> Vec<u8> {
     let mut w = csv::Writer::from_writer(Vec::new());
     let mut header: Vec<String> =
         rows.first().map(|r| r.at.iter().map(|(k, _)| k.clone()).collect()).unwrap_or_default();
-    header.extend(
-        [
-            "true_best_horizon",
-            "true_best_holding",
-            "rule",
-            "hit_rate",
-            "hit_rate_se",
-            "near_hit_rate",
-            "near_hit_rate_se",
-            "near_best_rate",
-            "near_best_rate_se",
-            "regret_rel_mean",
-            "regret_rel_mean_se",
-        ]
-        .map(String::from),
-    );
+    header.extend(["true_best_horizon", "true_best_holding"].map(String::from));
+    header.extend(RECORD_HEADER.map(String::from));
     w.write_record(&header).expect("in-memory CSV");
-    let f = |x: f64| format!("{x:.6}");
     for r in rows {
         for rule in RULES {
-            let s = r.rules.get(rule);
             let mut row: Vec<String> = r.at.iter().map(|(_, v)| v.clone()).collect();
-            row.extend([
-                r.best_horizon.to_string(),
-                r.best_holding.to_string(),
-                rule.name().to_string(),
-                f(s.hit_rate),
-                f(s.hit_rate_se),
-                f(s.near_hit_rate),
-                f(s.near_hit_rate_se),
-                f(s.near_best_rate),
-                f(s.near_best_rate_se),
-                f(s.regret_rel_mean),
-                s.regret_rel_mean_se.map(f).unwrap_or_default(),
-            ]);
+            row.extend([r.best_horizon.to_string(), r.best_holding.to_string()]);
+            row.extend(record_cells(rule, r.rules.get(rule)));
             w.write_record(&row).expect("in-memory CSV");
         }
     }
