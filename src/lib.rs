@@ -5,6 +5,7 @@
 //! [`generate`] → [`measure`] → [`study`] → [`report`]. The command line lives
 //! in the binary and in [`cli`].
 
+pub mod calendar;
 pub mod cli;
 pub mod decay;
 pub mod error;

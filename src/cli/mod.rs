@@ -1,6 +1,7 @@
 //! The command line, apart from the engine: parse options, read the scenario,
 //! run, write, report. Exit codes: 0 ok, 1 failure, 2 bad input.
 
+mod panel;
 mod plan;
 mod presets_cmd;
 mod progress;
@@ -30,6 +31,8 @@ pub enum Command {
     Plan(plan::PlanArgs),
     /// What a choice made under the assumed decay costs when another curve is true.
     Stress(stress::StressArgs),
+    /// Write one simulated history as a long CSV (date, asset, forecast, return).
+    Panel(panel::PanelArgs),
     /// List the built-in presets, or print one as TOML.
     Presets(presets_cmd::PresetsArgs),
 }
@@ -72,6 +75,7 @@ pub fn main() -> i32 {
         Command::Demo(a) => run::demo(&a),
         Command::Plan(a) => plan::run(&a),
         Command::Stress(a) => stress::run(&a),
+        Command::Panel(a) => panel::run(&a),
         Command::Presets(a) => presets_cmd::run(&a),
     };
     match result {
