@@ -81,10 +81,3 @@ pub enum InputError {
         known: String,
     },
 }
-
-impl InputError {
-    /// Exit code for the command line: 2 for bad input, as for every variant here.
-    pub fn exit_code(&self) -> i32 {
-        2
-    }
-}
