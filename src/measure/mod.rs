@@ -12,6 +12,7 @@
 mod banded;
 pub mod fit;
 pub mod hac;
+mod masked;
 mod panel;
 pub mod rank;
 pub mod rules;
@@ -31,7 +32,7 @@ pub struct PerDate {
 }
 
 impl PerDate {
-    fn reset(&mut self, lags: usize, width: usize) {
+    pub(crate) fn reset(&mut self, lags: usize, width: usize) {
         self.width = width;
         self.values.clear();
         self.values.resize(lags * width, f64::NAN);
@@ -104,6 +105,7 @@ impl PerDate {
 pub struct Measurement {
     horizons: usize,
     with_rank: bool,
+    min_assets: usize,
     /// Lagged Pearson ICs.
     pub lagged: PerDate,
     /// Horizon ICs.
@@ -129,7 +131,14 @@ fn demean_into(src: &[f64], dst: &mut [f64]) {
 impl Measurement {
     /// Measures up to lag and horizon `horizons`; rank ICs when `with_rank`.
     pub fn new(horizons: usize, with_rank: bool) -> Self {
-        Self { horizons, with_rank, ..Self::default() }
+        Self { horizons, with_rank, min_assets: 3, ..Self::default() }
+    }
+
+    /// Pairs of dates with fewer common assets than this give no IC (panels
+    /// with missing values only; at least 3).
+    pub fn with_min_assets(mut self, min_assets: usize) -> Self {
+        self.min_assets = min_assets.max(3);
+        self
     }
 
     /// Longest lag and horizon measured.
@@ -151,9 +160,21 @@ impl Measurement {
 
     /// Measures `panel` (needs `panel.dates ≥ horizons + 2`). Dates on which a
     /// cross-section has no variance give no IC and are left out of the means.
+    /// A panel with missing values (`has_missing`) is measured pair by pair on
+    /// the assets that have both values; rank ICs and the forecast-by-return
+    /// products are then not available.
     pub fn update(&mut self, panel: &Panel) {
         let (n, t, l) = (panel.assets, panel.dates, self.horizons);
         assert!(t >= l + 2, "panel has {t} dates, needs at least {}", l + 2);
+        if panel.has_missing {
+            self.lagged.reset(l, t);
+            self.horizon.reset(l, t);
+            self.rank_lagged.reset(l, t);
+            self.cross.clear();
+            let (lagged, horizon) = (&mut self.lagged, &mut self.horizon);
+            masked::lagged_and_horizon(&panel.forecasts, &panel.returns, n, l, self.min_assets, lagged, horizon);
+            return;
+        }
         self.pearson_and_horizon(panel, n, t);
         if self.with_rank {
             self.rank(panel, n, t);
@@ -230,10 +251,17 @@ impl Measurement {
 }
 
 fn push(p: &mut PerDate, k: usize, v: f64) {
-    if v.is_finite() {
-        let c = &mut p.counts[k - 1];
-        p.values[(k - 1) * p.width + *c] = v;
-        *c += 1;
+    p.push(k, v);
+}
+
+impl PerDate {
+    /// Appends the next date's value at lag `k` (non-finite values are skipped).
+    pub(crate) fn push(&mut self, k: usize, v: f64) {
+        if v.is_finite() {
+            let c = &mut self.counts[k - 1];
+            self.values[(k - 1) * self.width + *c] = v;
+            *c += 1;
+        }
     }
 }
 
@@ -260,6 +288,40 @@ mod tests {
             *x = ((i * 104_729) % 31) as f64 / 13.0 - 1.1 + 0.2 * p.forecasts[i];
         }
         p
+    }
+
+    #[test]
+    fn the_missing_value_path_agrees_with_the_dense_one_and_skips_what_is_missing() {
+        let p = toy_panel();
+        let mut dense = Measurement::new(3, false);
+        dense.update(&p);
+        let mut flagged = p.clone();
+        flagged.has_missing = true;
+        let mut masked = Measurement::new(3, false);
+        masked.update(&flagged);
+        for k in 1..=3 {
+            for (a, b) in dense.lagged.series(k).iter().zip(masked.lagged.series(k)) {
+                assert!((a - b).abs() < 1e-12);
+            }
+            for (a, b) in dense.horizon.series(k).iter().zip(masked.horizon.series(k)) {
+                assert!((a - b).abs() < 1e-12);
+            }
+        }
+        // Remove asset 0's forecast at date 2 and asset 1's return over (3, 4].
+        flagged.forecasts[2 * p.assets] = f64::NAN;
+        flagged.returns[3 * p.assets + 1] = f64::NAN;
+        masked.update(&flagged);
+        let keep = |skip: &[usize]| (0..p.assets).filter(|i| !skip.contains(i)).collect::<Vec<_>>();
+        let pick = |row: &[f64], idx: &[usize]| idx.iter().map(|&i| row[i]).collect::<Vec<_>>();
+        // Lag 2 at date 2 uses returns over (3, 4]: drop assets 0 and 1.
+        let idx = keep(&[0, 1]);
+        let want = pearson(&pick(p.forecast_row(2), &idx), &pick(p.return_row(3), &idx));
+        assert!((masked.lagged.series(2)[2] - want).abs() < 1e-12);
+        // Horizon 3 at date 1 sums returns over (1, 4]: asset 1 drops out.
+        let idx = keep(&[1]);
+        let cum: Vec<f64> = idx.iter().map(|&i| (1..4).map(|s| p.return_row(s)[i]).sum()).collect();
+        let want = pearson(&pick(p.forecast_row(1), &idx), &cum);
+        assert!((masked.horizon.series(3)[1] - want).abs() < 1e-12);
     }
 
     #[test]

@@ -18,6 +18,8 @@ pub struct Panel {
     pub forecasts: Vec<f64>,
     /// `(dates − 1) × assets`, row-major.
     pub returns: Vec<f64>,
+    /// Whether any value is missing (NaN); simulated panels have none.
+    pub has_missing: bool,
 }
 
 impl Panel {
@@ -28,6 +30,7 @@ impl Panel {
             dates,
             forecasts: vec![0.0; assets * dates],
             returns: vec![0.0; assets * dates.saturating_sub(1)],
+            has_missing: false,
         }
     }
 
