@@ -14,6 +14,7 @@ pub mod measure;
 pub mod model;
 pub mod plan;
 pub mod portfolio;
+pub mod reader;
 pub mod report;
 pub mod rng;
 pub mod scenario;

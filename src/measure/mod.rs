@@ -10,6 +10,7 @@
 //! - means over dates with overlap-aware standard errors ([`hac`]).
 
 mod banded;
+pub mod extras;
 pub mod fit;
 pub mod hac;
 mod masked;
