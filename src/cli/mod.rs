@@ -1,6 +1,7 @@
 //! The command line, apart from the engine: parse options, read the scenario,
 //! run, write, report. Exit codes: 0 ok, 1 failure, 2 bad input.
 
+mod measure;
 mod panel;
 mod plan;
 mod presets_cmd;
@@ -31,6 +32,8 @@ pub enum Command {
     Plan(plan::PlanArgs),
     /// What a choice made under the assumed decay costs when another curve is true.
     Stress(stress::StressArgs),
+    /// Measure your own panel's lagged and horizon ICs and its best horizon.
+    Measure(measure::MeasureArgs),
     /// Write one simulated history as a long CSV (date, asset, forecast, return).
     Panel(panel::PanelArgs),
     /// List the built-in presets, or print one as TOML.
@@ -75,6 +78,7 @@ pub fn main() -> i32 {
         Command::Demo(a) => run::demo(&a),
         Command::Plan(a) => plan::run(&a),
         Command::Stress(a) => stress::run(&a),
+        Command::Measure(a) => measure::run(&a),
         Command::Panel(a) => panel::run(&a),
         Command::Presets(a) => presets_cmd::run(&a),
     };

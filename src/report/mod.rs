@@ -2,6 +2,7 @@
 //! bytes; [`write_atomically`] puts them in place only once all are written.
 
 mod csv_tables;
+mod measure_out;
 mod panel_csv;
 mod plan;
 mod records;
@@ -11,6 +12,7 @@ mod sweep;
 mod terminal;
 
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
+pub use measure_out::{BestHorizon, Curve, MeasureResult, measure_csv, measure_json, measure_terminal};
 pub use panel_csv::write_panel;
 pub use plan::{plan_csv, plan_json, plan_terminal};
 pub use stress::{stress_csv, stress_json, stress_terminal};

@@ -1,0 +1,184 @@
+//! `lagfold measure` on panels written by `lagfold panel` and by hand.
+
+use assert_cmd::Command;
+use lagfold::generate::Workspace;
+use lagfold::measure::Measurement;
+use lagfold::rng::path_rng;
+use lagfold::scenario::{self, Overrides, presets};
+use lagfold::study::Setup;
+use serde_json::Value;
+use std::path::Path;
+
+fn lagfold() -> Command {
+    Command::cargo_bin("lagfold").unwrap()
+}
+
+fn measure_json(dir: &Path) -> Value {
+    serde_json::from_slice(&std::fs::read(dir.join("measure.json")).unwrap()).unwrap()
+}
+
+#[test]
+fn a_simulated_panel_measures_as_in_memory() {
+    // The CSV round trip (8 decimals) must reproduce the library's measurement
+    // of the same simulated history; the forecast autocorrelation must be the
+    // scenario's 0.8 (about 239,000 pairs: its sampling sd is below 0.002).
+    let tmp = tempfile::tempdir().unwrap();
+    let csv = tmp.path().join("p.csv");
+    lagfold()
+        .args(["panel", "monthly-steady", "--assets", "300", "--history", "120", "--seed", "4", "-q", "--out"])
+        .arg(&csv)
+        .assert()
+        .success();
+    lagfold()
+        .arg("measure")
+        .arg(&csv)
+        .args(["--horizons", "12", "-q", "--out"])
+        .arg(tmp.path().join("o"))
+        .assert()
+        .success();
+    let m = measure_json(&tmp.path().join("o"));
+    let ov = Overrides { assets: Some(300), history: Some(120), seed: Some(4), ..Overrides::default() };
+    let s = scenario::load(presets::text(presets::DEFAULT).unwrap(), "t", "t", &ov).unwrap();
+    let setup = Setup::new(s).unwrap();
+    let mut ws = Workspace::default();
+    setup.generator.simulate(&mut path_rng(4, 0), &mut ws);
+    let mut meas = Measurement::new(12, false);
+    meas.update(&ws.panel);
+    let want = meas.lagged.means();
+    let got: Vec<f64> = m["lagged_ic"]["mean"].as_array().unwrap().iter().map(|v| v.as_f64().unwrap()).collect();
+    for (k, (a, b)) in got.iter().zip(&want).enumerate() {
+        assert!((a - b).abs() < 1e-6, "lag {}: {a} vs {b}", k + 1);
+    }
+    let hor: Vec<f64> = m["horizon_ic"]["mean"].as_array().unwrap().iter().map(|v| v.as_f64().unwrap()).collect();
+    assert!((hor[5] - meas.horizon.means()[5]).abs() < 1e-6);
+    assert!((m["forecast_autocorrelation"].as_f64().unwrap() - 0.8).abs() < 0.01);
+    assert_eq!(m["dates_used"], 119);
+    for rule in ["peak", "formula", "fitted"] {
+        assert!((1..=12).contains(&m["best_horizon"][rule].as_u64().unwrap()));
+    }
+}
+
+#[test]
+fn a_look_ahead_signal_is_not_found() {
+    // The forecast equals the return over the period that ends at its own
+    // date: known by then, so it predicts nothing. Declared as backward
+    // returns, the tool pairs each forecast with later periods only, and the
+    // lag-1 IC must vanish (4 standard errors); read the same file as forward
+    // returns, it would be a perfect forecast.
+    let tmp = tempfile::tempdir().unwrap();
+    let csv = tmp.path().join("la.csv");
+    let mut text = String::from("date,asset,forecast,return\n");
+    let mut x: u64 = 88172645463325252;
+    let mut next = || {
+        x ^= x << 13;
+        x ^= x >> 7;
+        x ^= x << 17;
+        (x >> 11) as f64 / (1u64 << 53) as f64 - 0.5
+    };
+    for month in 1..=60u32 {
+        let date = format!("{}-{:02}-28", 2001 + (month - 1) / 12, (month - 1) % 12 + 1);
+        for a in 0..100 {
+            let r = next();
+            text.push_str(&format!("{date},X{a},{r},{r}\n"));
+        }
+    }
+    std::fs::write(&csv, text).unwrap();
+    lagfold()
+        .arg("measure")
+        .arg(&csv)
+        .args(["--backward-returns", "--horizons", "3", "-q", "--out"])
+        .arg(tmp.path().join("b"))
+        .assert()
+        .success();
+    let m = measure_json(&tmp.path().join("b"));
+    let (ic, se) = (m["lagged_ic"]["mean"][0].as_f64().unwrap(), m["lagged_ic"]["se"][0].as_f64().unwrap());
+    assert!(ic.abs() < 4.0 * se, "lag-1 IC {ic}, se {se}");
+    lagfold()
+        .arg("measure")
+        .arg(&csv)
+        .args(["--horizons", "3", "-q", "--out"])
+        .arg(tmp.path().join("f"))
+        .assert()
+        .success();
+    assert!(measure_json(&tmp.path().join("f"))["lagged_ic"]["mean"][0].as_f64().unwrap() > 0.999);
+}
+
+/// Runs `measure` on `text`; returns stderr after checking exit code 2.
+fn fails(text: &str, extra: &[&str]) -> String {
+    let tmp = tempfile::tempdir().unwrap();
+    let csv = tmp.path().join("bad.csv");
+    std::fs::write(&csv, text).unwrap();
+    let a = lagfold()
+        .arg("measure")
+        .arg(&csv)
+        .args(["--horizons", "2", "-q", "--out"])
+        .arg(tmp.path().join("o"))
+        .args(extra)
+        .assert()
+        .code(2);
+    let err = String::from_utf8(a.get_output().stderr.clone()).unwrap();
+    assert!(!err.contains("panicked"), "{err}");
+    err
+}
+
+fn rows(n_dates: u32) -> String {
+    let mut t = String::from("date,asset,forecast,return\n");
+    for d in 1..=n_dates {
+        for a in 0..25 {
+            t.push_str(&format!("2001-{d:02}-15,A{a},{},{}\n", (a * 7 % 11) as f64 - 5.0, (a * 3 % 5) as f64 * 0.01));
+        }
+    }
+    t
+}
+
+#[test]
+fn bad_panels_are_refused_with_file_and_line() {
+    let good = rows(6);
+    let err = fails(&good.replacen("forecast", "score", 1), &[]);
+    assert!(err.contains("bad.csv, line 1: no column `forecast`") && err.contains("--forecast-column"), "{err}");
+    let mut lines: Vec<String> = good.lines().map(String::from).collect();
+    lines[3] = "2001-01-15,A2,abc,0.01".into();
+    let err = fails(&lines.join("\n"), &[]);
+    assert!(err.contains("line 4: `forecast` must be a finite number or empty, got \"abc\""), "{err}");
+    lines[3] = "2001-01-15,A2,inf,0.01".into();
+    assert!(fails(&lines.join("\n"), &[]).contains("line 4"));
+    lines[3] = "2001-13-15,A2,1,0.01".into();
+    let err = fails(&lines.join("\n"), &[]);
+    assert!(err.contains("line 4: `date` must be an ISO 8601 date (YYYY-MM-DD), got \"2001-13-15\""), "{err}");
+    lines[3] = "2001-01-15,A1,1,0.01".into();
+    let err = fails(&lines.join("\n"), &[]);
+    assert!(err.contains("line 4: asset \"A1\" appears twice on 2001-01-15 (first on line 3)"), "{err}");
+    let err = fails(&rows(3), &[]);
+    assert!(err.contains("3 dates are too few for horizons up to 2 (need at least 4)"), "{err}");
+}
+
+#[test]
+fn unbalanced_panels_use_the_assets_present_and_skip_thin_dates() {
+    let tmp = tempfile::tempdir().unwrap();
+    let csv = tmp.path().join("u.csv");
+    // Drop assets 20–24 on month 3 (20 remain) and 10–24 on month 4 (10 remain); shuffle the rows.
+    let mut lines: Vec<String> = rows(8)
+        .lines()
+        .skip(1)
+        .filter(|l| {
+            let month: u32 = l[5..7].parse().unwrap();
+            let asset: u32 = l.split(',').nth(1).unwrap()[1..].parse().unwrap();
+            !(month == 3 && asset >= 20 || month == 4 && asset >= 10)
+        })
+        .map(String::from)
+        .collect();
+    lines.reverse();
+    std::fs::write(&csv, format!("date,asset,forecast,return\n{}\n", lines.join("\n"))).unwrap();
+    let a = lagfold()
+        .arg("measure")
+        .arg(&csv)
+        .args(["--horizons", "2", "--min-assets", "15", "--out"])
+        .arg(tmp.path().join("o"))
+        .assert()
+        .success();
+    let out = String::from_utf8(a.get_output().stdout.clone()).unwrap();
+    assert!(out.contains("warning: rows are not sorted by date"), "{out}");
+    let m = measure_json(&tmp.path().join("o"));
+    // 8 dates, 7 with a forward return; month 4 has only 10 assets: skipped at lag 1.
+    assert_eq!((m["dates_used"].as_u64(), m["dates_skipped"].as_u64()), (Some(6), Some(2)));
+}
