@@ -52,6 +52,7 @@ fn a_simulated_panel_measures_as_in_memory() {
     let hor: Vec<f64> = m["horizon_ic"]["mean"].as_array().unwrap().iter().map(|v| v.as_f64().unwrap()).collect();
     assert!((hor[5] - meas.horizon.means()[5]).abs() < 1e-6);
     assert!((m["forecast_autocorrelation"].as_f64().unwrap() - 0.8).abs() < 0.01);
+    assert_eq!(m["rank_ic"]["mean"].as_array().unwrap().len(), 12);
     assert_eq!(m["dates_used"], 119);
     for rule in ["peak", "formula", "fitted"] {
         assert!((1..=12).contains(&m["best_horizon"][rule].as_u64().unwrap()));

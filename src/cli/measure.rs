@@ -74,10 +74,11 @@ pub fn measure(
     backward: bool,
 ) -> MeasureResult {
     let p = &read.panel;
-    let mut m = Measurement::new(l, false).with_min_assets(min_assets);
+    let mut m = Measurement::new(l, true).with_min_assets(min_assets);
     m.update(p);
     let (lag_mean, lag_se) = m.lagged.means_and_se(false);
     let (hor_mean, hor_se) = m.horizon.means_and_se(true);
+    let (rank_mean, rank_se) = m.rank_lagged.means_and_se(false);
     let choices = choose(&lag_mean, &lag_se, &hor_mean);
     let best = fit::best_fit(&lag_mean, &lag_se);
     let used = m.lagged.series(1).len();
@@ -103,6 +104,7 @@ pub fn measure(
         fitted_curve: best.curve.clone(),
         best_horizon: BestHorizon { peak: choices.horizon[0], formula: choices.horizon[1], fitted: choices.horizon[2] },
         lagged_ic: Curve::new(lag_mean, lag_se),
+        rank_ic: Curve::new(rank_mean, rank_se),
         horizon_ic: Curve::new(hor_mean, hor_se),
         se_method: "Newey-West (Bartlett) with max(2n, Andrews AR(1) plug-in) lags; lagged ICs use n = 1".into(),
         warnings: read.warnings.clone(),

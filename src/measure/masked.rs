@@ -73,3 +73,34 @@ pub fn lagged_and_horizon(
         }
     }
 }
+
+/// Rank (Spearman) lagged ICs on each pair's common assets: both sides are
+/// ranked afresh on the assets that have both values (average ranks for ties).
+pub fn rank_lagged(forecasts: &[f64], returns: &[f64], n: usize, l: usize, min_assets: usize, out: &mut PerDate) {
+    let rows = returns.len() / n;
+    let (mut x, mut y, mut order) = (Vec::with_capacity(n), Vec::with_capacity(n), Vec::new());
+    for t in 0..rows {
+        let f = &forecasts[t * n..(t + 1) * n];
+        for k in 1..=l.min(rows - t) {
+            let r = &returns[(t + k - 1) * n..(t + k) * n];
+            x.clear();
+            y.clear();
+            for (a, b) in f.iter().zip(r) {
+                if a.is_finite() && b.is_finite() {
+                    x.push(*a);
+                    y.push(*b);
+                }
+            }
+            if x.len() < min_assets.max(3) {
+                continue;
+            }
+            super::rank::rank_in_place(&mut x, &mut order);
+            super::rank::rank_in_place(&mut y, &mut order);
+            let m = x.len() as f64;
+            let (sx, sy) = (x.iter().sum::<f64>(), y.iter().sum::<f64>());
+            let (sxx, syy) = (x.iter().map(|v| v * v).sum::<f64>(), y.iter().map(|v| v * v).sum::<f64>());
+            let sxy = x.iter().zip(&y).map(|(a, b)| a * b).sum::<f64>();
+            out.push(k, pearson(m, sx, sy, sxx, syy, sxy));
+        }
+    }
+}

@@ -162,8 +162,8 @@ impl Measurement {
     /// Measures `panel` (needs `panel.dates ≥ horizons + 2`). Dates on which a
     /// cross-section has no variance give no IC and are left out of the means.
     /// A panel with missing values (`has_missing`) is measured pair by pair on
-    /// the assets that have both values; rank ICs and the forecast-by-return
-    /// products are then not available.
+    /// the assets that have both values (rank ICs re-ranked on them); the
+    /// forecast-by-return products are then not available.
     pub fn update(&mut self, panel: &Panel) {
         let (n, t, l) = (panel.assets, panel.dates, self.horizons);
         assert!(t >= l + 2, "panel has {t} dates, needs at least {}", l + 2);
@@ -174,6 +174,9 @@ impl Measurement {
             self.cross.clear();
             let (lagged, horizon) = (&mut self.lagged, &mut self.horizon);
             masked::lagged_and_horizon(&panel.forecasts, &panel.returns, n, l, self.min_assets, lagged, horizon);
+            if self.with_rank {
+                masked::rank_lagged(&panel.forecasts, &panel.returns, n, l, self.min_assets, &mut self.rank_lagged);
+            }
             return;
         }
         self.pearson_and_horizon(panel, n, t);
@@ -296,11 +299,16 @@ mod tests {
         let p = toy_panel();
         let mut dense = Measurement::new(3, false);
         dense.update(&p);
+        let mut dense = Measurement::new(3, true);
+        dense.update(&p);
         let mut flagged = p.clone();
         flagged.has_missing = true;
-        let mut masked = Measurement::new(3, false);
+        let mut masked = Measurement::new(3, true);
         masked.update(&flagged);
         for k in 1..=3 {
+            for (a, b) in dense.rank_lagged.series(k).iter().zip(masked.rank_lagged.series(k)) {
+                assert!((a - b).abs() < 1e-12);
+            }
             for (a, b) in dense.lagged.series(k).iter().zip(masked.lagged.series(k)) {
                 assert!((a - b).abs() < 1e-12);
             }

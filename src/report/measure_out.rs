@@ -54,6 +54,8 @@ pub struct MeasureResult {
     pub return_timing: String,
     /// Lagged Pearson ICs.
     pub lagged_ic: Curve,
+    /// Lagged rank (Spearman) ICs.
+    pub rank_ic: Curve,
     /// Horizon ICs.
     pub horizon_ic: Curve,
     /// Standard-error method.
@@ -86,8 +88,19 @@ pub fn measure_json(m: &MeasureResult) -> Vec<u8> {
 /// `measure_lags.csv`: one row per lag/horizon.
 pub fn measure_csv(m: &MeasureResult) -> Vec<u8> {
     let mut w = csv::Writer::from_writer(Vec::new());
-    w.write_record(["n", "ic_mean", "ic_se", "ic_t", "horizon_ic_mean", "horizon_ic_se", "horizon_ic_t", "fitted_ic"])
-        .expect("in-memory CSV");
+    w.write_record([
+        "n",
+        "ic_mean",
+        "ic_se",
+        "ic_t",
+        "rank_ic_mean",
+        "rank_ic_se",
+        "horizon_ic_mean",
+        "horizon_ic_se",
+        "horizon_ic_t",
+        "fitted_ic",
+    ])
+    .expect("in-memory CSV");
     let o = |x: Option<f64>| x.map(|v| format!("{v:.8}")).unwrap_or_default();
     for i in 0..m.lagged_ic.mean.len() {
         w.write_record([
@@ -95,6 +108,8 @@ pub fn measure_csv(m: &MeasureResult) -> Vec<u8> {
             format!("{:.8}", m.lagged_ic.mean[i]),
             o(m.lagged_ic.se[i]),
             o(m.lagged_ic.t[i]),
+            format!("{:.8}", m.rank_ic.mean[i]),
+            o(m.rank_ic.se[i]),
             format!("{:.8}", m.horizon_ic.mean[i]),
             o(m.horizon_ic.se[i]),
             o(m.horizon_ic.t[i]),
@@ -126,11 +141,12 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
     for i in 0..m.lagged_ic.mean.len() {
         let _ = writeln!(
             out,
-            "  {:>4}  {:>9.4}  {:>8}  {:>6}  {:>10.4}  {:>8}  {:>6}  {:>9.4}",
+            "  {:>4}  {:>9.4}  {:>8}  {:>6}  {:>9.4}  {:>10.4}  {:>8}  {:>6}  {:>9.4}",
             i + 1,
             m.lagged_ic.mean[i],
             f(m.lagged_ic.se[i], 4),
             f(m.lagged_ic.t[i], 1),
+            m.rank_ic.mean[i],
             m.horizon_ic.mean[i],
             f(m.horizon_ic.se[i], 4),
             f(m.horizon_ic.t[i], 1),
