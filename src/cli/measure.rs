@@ -4,9 +4,10 @@
 use super::run::StudyArgs;
 use super::{Failure, print};
 use crate::measure::rules::choose;
-use crate::measure::{Measurement, extras, fit, sign};
+use crate::measure::{Measurement, bootstrap, extras, fit, sign};
 use crate::reader::{ReadOptions, read_panel};
-use crate::report::{self, BestHorizon, Curve, MeasureResult};
+use crate::report::{self, BestHorizon, BootCounts, Bootstrap, Curve, MeasureResult};
+use crate::stats::quantile_sorted;
 use std::path::{Path, PathBuf};
 
 /// Options of `measure`.
@@ -33,6 +34,9 @@ pub struct MeasureArgs {
     /// Dates where fewer assets have both values are skipped.
     #[arg(long, default_value_t = 20)]
     pub min_assets: usize,
+    /// Stationary-bootstrap resamples of the dates.
+    #[arg(long, default_value_t = 1000, value_parser = clap::value_parser!(u32).range(10..=100_000))]
+    pub bootstrap: u32,
     /// The common knobs (`--horizons`, `--out`, `--quiet`, …).
     #[command(flatten)]
     pub study: StudyArgs,
@@ -52,7 +56,8 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
         return Err(Failure::input("`--horizons` must be at least 1, got 0"));
     }
     let read = read_panel(&a.panel, &opts, l).map_err(Failure::input)?;
-    let result = measure(&read, &a.panel, l, a.min_assets, a.backward_returns);
+    let seed = a.study.seed.unwrap_or(1);
+    let result = measure(&read, &a.panel, l, a.min_assets, a.backward_returns, (a.bootstrap as usize, seed));
     let stem = a.panel.file_stem().map_or("panel".into(), |s| s.to_string_lossy().into_owned());
     let out_dir = a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{stem}-measure")));
     let files = [("measure.json", report::measure_json(&result)), ("measure_lags.csv", report::measure_csv(&result))];
@@ -65,13 +70,15 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     Ok(())
 }
 
-/// Every figure of a read panel.
+/// Every figure of a read panel; `boot` is `(resamples, seed)` of the
+/// stationary bootstrap.
 pub fn measure(
     read: &crate::reader::ReadPanel,
     file: &Path,
     l: usize,
     min_assets: usize,
     backward: bool,
+    boot: (usize, u64),
 ) -> MeasureResult {
     let p = &read.panel;
     let mut m = Measurement::new(l, true).with_min_assets(min_assets);
@@ -83,6 +90,32 @@ pub fn measure(
     let best = fit::best_fit(&lag_mean, &lag_se);
     let used = m.lagged.series(1).len();
     let (agree, total) = sign::sign_agreement(p, 1);
+    let m_dates = p.dates - 1;
+    let block = (l as f64).max((m_dates as f64).cbrt()).min(m_dates as f64 / 2.0).max(1.0);
+    let resampled = bootstrap::choices(&m.lagged, &m.horizon, &lag_se, m_dates, block, boot.0, boot.1);
+    let tally = |i: usize| {
+        let mut c = vec![0u64; l];
+        resampled.iter().for_each(|ch| c[ch.horizon[i] - 1] += 1);
+        c
+    };
+    let range = |i: usize| {
+        let mut v: Vec<f64> = resampled.iter().map(|ch| ch.horizon[i] as f64).collect();
+        v.sort_by(f64::total_cmp);
+        [quantile_sorted(&v, 0.05), quantile_sorted(&v, 0.95)]
+    };
+    let counts = BootCounts { peak: tally(0), formula: tally(1), fitted: tally(2) };
+    let share = |c: &[u64], n: usize| c[n - 1] as f64 / boot.0 as f64;
+    let bootstrap = Bootstrap {
+        replicates: boot.0,
+        mean_block_length: block,
+        share_at_estimate: [
+            share(&counts.peak, choices.horizon[0]),
+            share(&counts.formula, choices.horizon[1]),
+            share(&counts.fitted, choices.horizon[2]),
+        ],
+        range_90: [range(0), range(1), range(2)],
+        choice_counts: counts,
+    };
     MeasureResult {
         file: file.display().to_string(),
         rows: read.rows,
@@ -107,6 +140,7 @@ pub fn measure(
         rank_ic: Curve::new(rank_mean, rank_se),
         horizon_ic: Curve::new(hor_mean, hor_se),
         se_method: "Newey-West (Bartlett) with max(2n, Andrews AR(1) plug-in) lags; lagged ICs use n = 1".into(),
+        bootstrap,
         warnings: read.warnings.clone(),
     }
 }

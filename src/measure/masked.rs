@@ -67,7 +67,7 @@ pub fn lagged_and_horizon(
             }
             for (sums, out) in [(lag, &mut *lagged), (hor, &mut *horizon)] {
                 if sums[0] >= min_assets.max(3) as f64 {
-                    out.push(k, pearson(sums[0], sums[1], sums[2], sums[3], sums[4], sums[5]));
+                    out.push(k, t, pearson(sums[0], sums[1], sums[2], sums[3], sums[4], sums[5]));
                 }
             }
         }
@@ -100,7 +100,7 @@ pub fn rank_lagged(forecasts: &[f64], returns: &[f64], n: usize, l: usize, min_a
             let (sx, sy) = (x.iter().sum::<f64>(), y.iter().sum::<f64>());
             let (sxx, syy) = (x.iter().map(|v| v * v).sum::<f64>(), y.iter().map(|v| v * v).sum::<f64>());
             let sxy = x.iter().zip(&y).map(|(a, b)| a * b).sum::<f64>();
-            out.push(k, pearson(m, sx, sy, sxx, syy, sxy));
+            out.push(k, t, pearson(m, sx, sy, sxx, syy, sxy));
         }
     }
 }

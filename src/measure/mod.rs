@@ -10,6 +10,7 @@
 //! - means over dates with overlap-aware standard errors ([`hac`]).
 
 mod banded;
+pub mod bootstrap;
 pub mod extras;
 pub mod fit;
 pub mod hac;
@@ -29,6 +30,7 @@ pub(crate) use banded::banded_products;
 pub struct PerDate {
     width: usize,
     values: Vec<f64>,
+    dates: Vec<u32>,
     counts: Vec<usize>,
 }
 
@@ -37,6 +39,8 @@ impl PerDate {
         self.width = width;
         self.values.clear();
         self.values.resize(lags * width, f64::NAN);
+        self.dates.clear();
+        self.dates.resize(lags * width, 0);
         self.counts.clear();
         self.counts.resize(lags, 0);
     }
@@ -55,6 +59,11 @@ impl PerDate {
     pub fn series(&self, k: usize) -> &[f64] {
         let row = &self.values[(k - 1) * self.width..k * self.width];
         &row[..self.counts[k - 1]]
+    }
+
+    /// The dates (0-based) of [`PerDate::series`] at lag `k`.
+    pub fn dates(&self, k: usize) -> &[u32] {
+        &self.dates[(k - 1) * self.width..(k - 1) * self.width + self.counts[k - 1]]
     }
 
     /// The values at lag `k` of the first `dates` dates of the panel, as if
@@ -220,8 +229,8 @@ impl Measurement {
                 cov += c;
                 // ‖Σ_{j<k} r_j‖² grows by ‖r‖² + 2·Σ_{j<k−1} ⟨r_{date+j}, r⟩
                 var += r_ss + 2.0 * (0..k - 1).map(|j| gram[(date + j) * l + (k - 1 - j)]).sum::<f64>();
-                push(&mut self.lagged, k, c / (f_ss * r_ss).sqrt());
-                push(&mut self.horizon, k, cov / (f_ss * var).sqrt());
+                push(&mut self.lagged, k, date, c / (f_ss * r_ss).sqrt());
+                push(&mut self.horizon, k, date, cov / (f_ss * var).sqrt());
             }
         }
     }
@@ -248,22 +257,25 @@ impl Measurement {
         for date in 0..t - 1 {
             let f_ss = sums::sum_sq(&self.rank_f[date * n..(date + 1) * n]);
             for k in 1..=l.min(t - 1 - date) {
-                push(&mut self.rank_lagged, k, cross[date * l + k - 1] / (f_ss * r_ss[date + k - 1]).sqrt());
+                push(&mut self.rank_lagged, k, date, cross[date * l + k - 1] / (f_ss * r_ss[date + k - 1]).sqrt());
             }
         }
     }
 }
 
-fn push(p: &mut PerDate, k: usize, v: f64) {
-    p.push(k, v);
+fn push(p: &mut PerDate, k: usize, date: usize, v: f64) {
+    p.push(k, date, v);
 }
 
 impl PerDate {
-    /// Appends the next date's value at lag `k` (non-finite values are skipped).
-    pub(crate) fn push(&mut self, k: usize, v: f64) {
+    /// Appends date `date`'s value at lag `k` (dates in order; non-finite
+    /// values are skipped).
+    pub(crate) fn push(&mut self, k: usize, date: usize, v: f64) {
         if v.is_finite() {
             let c = &mut self.counts[k - 1];
-            self.values[(k - 1) * self.width + *c] = v;
+            let at = (k - 1) * self.width + *c;
+            self.values[at] = v;
+            self.dates[at] = date as u32;
             *c += 1;
         }
     }

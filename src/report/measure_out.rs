@@ -35,6 +35,32 @@ pub struct BestHorizon {
     pub fitted: usize,
 }
 
+/// The stationary bootstrap of the chosen horizon.
+#[derive(Debug, Clone, Serialize)]
+pub struct Bootstrap {
+    /// Resamples.
+    pub replicates: usize,
+    /// Mean block length in dates.
+    pub mean_block_length: f64,
+    /// Per rule, how often each horizon was chosen (index 0 = horizon 1).
+    pub choice_counts: BootCounts,
+    /// Per rule, the share of resamples that chose the full-sample estimate.
+    pub share_at_estimate: [f64; 3],
+    /// Per rule, the 5 % and 95 % quantiles of the chosen horizon.
+    pub range_90: [[f64; 2]; 3],
+}
+
+/// Choice counts per rule.
+#[derive(Debug, Clone, Serialize)]
+pub struct BootCounts {
+    /// Peak rule.
+    pub peak: Vec<u64>,
+    /// Formula rule.
+    pub formula: Vec<u64>,
+    /// Fitted rule.
+    pub fitted: Vec<u64>,
+}
+
 /// Everything `measure` reports.
 #[derive(Debug, Clone, Serialize)]
 pub struct MeasureResult {
@@ -76,6 +102,8 @@ pub struct MeasureResult {
     pub fitted_curve: Vec<f64>,
     /// The estimated optimal horizon under each rule.
     pub best_horizon: BestHorizon,
+    /// The stationary bootstrap of the chosen horizon (Politis and Romano, 1994).
+    pub bootstrap: Bootstrap,
     /// What the reader noticed.
     pub warnings: Vec<String>,
 }
@@ -158,6 +186,22 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
         out,
         "\n  Estimated best horizon: {} (peak of horizon IC), {} (Σ IC/√n), {} (fitted {} curve, shape {:.2}).",
         b.peak, b.formula, b.fitted, m.fitted_family, m.fitted_shape
+    );
+    let bs = &m.bootstrap;
+    let _ = writeln!(
+        out,
+        "  Stationary bootstrap ({} resamples of dates, mean block {:.0}): the estimate recurs in {:.0}% / {:.0}% / {:.0}% of resamples; 90% ranges {}–{}, {}–{}, {}–{}.",
+        bs.replicates,
+        bs.mean_block_length,
+        100.0 * bs.share_at_estimate[0],
+        100.0 * bs.share_at_estimate[1],
+        100.0 * bs.share_at_estimate[2],
+        bs.range_90[0][0],
+        bs.range_90[0][1],
+        bs.range_90[1][0],
+        bs.range_90[1][1],
+        bs.range_90[2][0],
+        bs.range_90[2][1]
     );
     let _ = writeln!(
         out,

@@ -12,7 +12,9 @@ mod sweep;
 mod terminal;
 
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
-pub use measure_out::{BestHorizon, Curve, MeasureResult, measure_csv, measure_json, measure_terminal};
+pub use measure_out::{
+    BestHorizon, BootCounts, Bootstrap, Curve, MeasureResult, measure_csv, measure_json, measure_terminal,
+};
 pub use panel_csv::write_panel;
 pub use plan::{plan_csv, plan_json, plan_terminal};
 pub use stress::{stress_csv, stress_json, stress_terminal};
