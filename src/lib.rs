@@ -6,6 +6,7 @@
 //! in the binary and in [`cli`].
 
 pub mod calendar;
+pub mod calibrate;
 pub mod cli;
 pub mod decay;
 pub mod error;

@@ -126,6 +126,8 @@ pub struct ReadPanel {
     pub rows: u64,
     /// Warnings in words (unsorted or irregular dates, and what was assumed).
     pub warnings: Vec<String>,
+    /// Median gap between consecutive dates, in days.
+    pub median_gap_days: f64,
 }
 
 /// Days since 1970-01-01 of a `YYYY-MM-DD` date, if it is one.
@@ -267,5 +269,5 @@ pub fn read_panel(path: &Path, opts: &ReadOptions, horizons: usize) -> Result<Re
             format!("{y:04}-{m:02}-{d:02}")
         })
         .collect();
-    Ok(ReadPanel { panel, dates, rows, warnings })
+    Ok(ReadPanel { panel, dates, rows, warnings, median_gap_days: median as f64 })
 }

@@ -60,6 +60,50 @@ fn a_simulated_panel_measures_as_in_memory() {
 }
 
 #[test]
+fn the_calibrated_scenario_runs_unchanged_and_the_study_can_be_skipped() {
+    let tmp = tempfile::tempdir().unwrap();
+    let csv = tmp.path().join("p.csv");
+    lagfold()
+        .args(["panel", "weekly-hump", "--assets", "200", "--history", "150", "-q", "--out"])
+        .arg(&csv)
+        .assert()
+        .success();
+    let out = tmp.path().join("o");
+    let a = lagfold()
+        .arg("measure")
+        .arg(&csv)
+        .args(["--horizons", "10", "--paths", "40", "--bootstrap", "50", "--out"])
+        .arg(&out)
+        .assert()
+        .success();
+    let text = String::from_utf8(a.get_output().stdout.clone()).unwrap();
+    assert!(text.contains("A history like this one"), "{text}");
+    let m = measure_json(&out);
+    assert_eq!(m["calibrated_study"]["paths"], 40);
+    assert_eq!(m["bootstrap"]["replicates"], 50);
+    let counts: u64 =
+        m["bootstrap"]["choice_counts"]["peak"].as_array().unwrap().iter().map(|v| v.as_u64().unwrap()).sum();
+    assert_eq!(counts, 50);
+    lagfold()
+        .arg("run")
+        .arg(out.join("calibrated.toml"))
+        .args(["--paths", "10", "-q", "--out"])
+        .arg(tmp.path().join("r"))
+        .assert()
+        .success();
+    let skip = tmp.path().join("s");
+    lagfold()
+        .arg("measure")
+        .arg(&csv)
+        .args(["--horizons", "10", "--no-study", "--bootstrap", "20", "-q", "--out"])
+        .arg(&skip)
+        .assert()
+        .success();
+    assert!(measure_json(&skip)["calibrated_study"].is_null());
+    assert!(skip.join("calibrated.toml").exists());
+}
+
+#[test]
 fn a_look_ahead_signal_is_not_found() {
     // The forecast equals the return over the period that ends at its own
     // date: known by then, so it predicts nothing. Declared as backward

@@ -1,13 +1,16 @@
 //! `lagfold measure <panel.csv>`: measure the decay of a user's own signal
 //! with the very estimators the study uses.
 
-use super::run::StudyArgs;
-use super::{Failure, print};
+use super::run::{StudyArgs, threads};
+use super::{Failure, print, progress};
+use crate::calibrate;
 use crate::measure::rules::choose;
 use crate::measure::{Measurement, bootstrap, extras, fit, sign};
+use crate::portfolio::PortfolioTruth;
 use crate::reader::{ReadOptions, read_panel};
-use crate::report::{self, BestHorizon, BootCounts, Bootstrap, Curve, MeasureResult};
+use crate::report::{self, BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult};
 use crate::stats::quantile_sorted;
+use crate::study::{self, Setup};
 use std::path::{Path, PathBuf};
 
 /// Options of `measure`.
@@ -34,6 +37,9 @@ pub struct MeasureArgs {
     /// Dates where fewer assets have both values are skipped.
     #[arg(long, default_value_t = 20)]
     pub min_assets: usize,
+    /// Do not run the study on the calibrated scenario.
+    #[arg(long)]
+    pub no_study: bool,
     /// Stationary-bootstrap resamples of the dates.
     #[arg(long, default_value_t = 1000, value_parser = clap::value_parser!(u32).range(10..=100_000))]
     pub bootstrap: u32,
@@ -57,17 +63,64 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     }
     let read = read_panel(&a.panel, &opts, l).map_err(Failure::input)?;
     let seed = a.study.seed.unwrap_or(1);
-    let result = measure(&read, &a.panel, l, a.min_assets, a.backward_returns, (a.bootstrap as usize, seed));
+    let (mut result, fit) = measure(&read, &a.panel, l, a.min_assets, a.backward_returns, (a.bootstrap as usize, seed));
     let stem = a.panel.file_stem().map_or("panel".into(), |s| s.to_string_lossy().into_owned());
     let out_dir = a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{stem}-measure")));
-    let files = [("measure.json", report::measure_json(&result)), ("measure_lags.csv", report::measure_csv(&result))];
+    let measured = calibrate::Measured {
+        panel: &read.panel,
+        median_gap_days: read.median_gap_days,
+        horizons: l,
+        fit: &fit,
+        forecast_autocorrelation: result.forecast_autocorrelation,
+        ic_volatility: result.ic_volatility,
+    };
+    let name: String = format!("{stem}-calibrated")
+        .chars()
+        .map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '-' })
+        .collect();
+    let mut files = vec![];
+    match calibrate::calibrated(&measured, &name, a.study.paths.unwrap_or(2000), seed) {
+        Ok((text, scenario)) => {
+            if !a.no_study {
+                result.calibrated_study = Some(calibrated_study(scenario, &a.study)?);
+            }
+            files.push(("calibrated.toml", text.into_bytes()));
+        }
+        Err(e) => result.warnings.push(format!("no calibrated scenario: {e}")),
+    }
+    files.push(("measure.json", report::measure_json(&result)));
+    files.push(("measure_lags.csv", report::measure_csv(&result)));
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::measure_terminal(&result);
-        text.push_str(&format!("\nOutputs: {} (measure.json, measure_lags.csv)\n", out_dir.display()));
+        let names: Vec<&str> = files.iter().map(|(n, _)| *n).collect();
+        text.push_str(&format!("\nOutputs: {} ({})\n", out_dir.display(), names.join(", ")));
         print(&text)?;
     }
     Ok(())
+}
+
+/// The study on the calibrated scenario: how often a history like the user's
+/// picks the right horizon.
+fn calibrated_study(scenario: crate::scenario::Scenario, a: &StudyArgs) -> Result<CalibratedStudy, Failure> {
+    let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("calibrated.toml: {e}")))?;
+    let threads = threads(a);
+    let s = &setup.scenario;
+    let bar = progress::bar(s.portfolio.reference_paths, a.quiet, "reference");
+    let truth = PortfolioTruth::compute(&setup, threads, &|d| bar.set_position(d as u64));
+    bar.finish_and_clear();
+    let bar = progress::bar(s.paths, a.quiet, "study");
+    let r = study::run(&setup, &truth, &[], threads, &|d| bar.set_position(d as u64));
+    bar.finish_and_clear();
+    let rules = [&r.rules.peak, &r.rules.formula, &r.rules.fitted];
+    Ok(CalibratedStudy {
+        scenario_file: "calibrated.toml".into(),
+        paths: r.paths,
+        true_best_horizon: setup.truth.best_horizon,
+        near_hit_rate: rules.map(|x| x.near_hit_rate),
+        near_hit_rate_se: rules.map(|x| x.near_hit_rate_se),
+        regret_rel_mean: rules.map(|x| x.regret_rel_mean),
+    })
 }
 
 /// Every figure of a read panel; `boot` is `(resamples, seed)` of the
@@ -79,7 +132,7 @@ pub fn measure(
     min_assets: usize,
     backward: bool,
     boot: (usize, u64),
-) -> MeasureResult {
+) -> (MeasureResult, fit::Fit) {
     let p = &read.panel;
     let mut m = Measurement::new(l, true).with_min_assets(min_assets);
     m.update(p);
@@ -116,7 +169,7 @@ pub fn measure(
         range_90: [range(0), range(1), range(2)],
         choice_counts: counts,
     };
-    MeasureResult {
+    let result = MeasureResult {
         file: file.display().to_string(),
         rows: read.rows,
         dates: p.dates,
@@ -141,6 +194,8 @@ pub fn measure(
         horizon_ic: Curve::new(hor_mean, hor_se),
         se_method: "Newey-West (Bartlett) with max(2n, Andrews AR(1) plug-in) lags; lagged ICs use n = 1".into(),
         bootstrap,
+        calibrated_study: None,
         warnings: read.warnings.clone(),
-    }
+    };
+    (result, best)
 }

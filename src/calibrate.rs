@@ -1,0 +1,97 @@
+//! From a measured panel back to a scenario: the breadth, history, fitted
+//! decay curve, forecast autocorrelation and IC volatility of the user's own
+//! data, written as a TOML file that `lagfold run` accepts unchanged.
+
+use crate::measure::Panel;
+use crate::measure::fit::{Family, Fit};
+use crate::scenario::{self, Overrides, Scenario};
+use std::fmt::Write;
+
+/// What a calibrated scenario is made of.
+#[derive(Debug, Clone)]
+pub struct Measured<'a> {
+    /// The panel.
+    pub panel: &'a Panel,
+    /// Its dates as days since 1970-01-01 would be ideal; the median gap in days is enough.
+    pub median_gap_days: f64,
+    /// Longest horizon measured.
+    pub horizons: usize,
+    /// The fitted decay curve.
+    pub fit: &'a Fit,
+    /// Measured forecast autocorrelation.
+    pub forecast_autocorrelation: Option<f64>,
+    /// Measured IC volatility beyond sampling noise.
+    pub ic_volatility: Option<f64>,
+}
+
+/// Periods a year for a median gap between dates: 12, 52 or 252 when the gap
+/// is about a month, a week or a (business) day, else `365.25 / gap`.
+pub fn periods_per_year(gap_days: f64) -> f64 {
+    match gap_days {
+        g if (27.0..=32.0).contains(&g) => 12.0,
+        g if (6.0..=8.0).contains(&g) => 52.0,
+        g if (0.5..=1.5).contains(&g) => 252.0,
+        g => (365.25 / g.max(1.0)).round(),
+    }
+}
+
+fn median(mut v: Vec<f64>) -> f64 {
+    v.sort_by(f64::total_cmp);
+    if v.is_empty() { f64::NAN } else { v[v.len() / 2] }
+}
+
+/// The scenario text and its validated form.
+///
+/// # Errors
+/// A message when the measurement cannot make a valid scenario (for example a
+/// negative fitted IC).
+pub fn calibrated(m: &Measured, name: &str, paths: usize, seed: u64) -> Result<(String, Scenario), String> {
+    let p = m.panel;
+    let assets =
+        median((0..p.dates).map(|t| p.forecast_row(t).iter().filter(|x| x.is_finite()).count() as f64).collect());
+    let vol = median(
+        (0..p.dates - 1)
+            .filter_map(|t| {
+                let r: Vec<f64> = p.return_row(t).iter().copied().filter(|x| x.is_finite()).collect();
+                (r.len() > 1).then(|| {
+                    let mean = r.iter().sum::<f64>() / r.len() as f64;
+                    (r.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / (r.len() - 1) as f64).sqrt()
+                })
+            })
+            .collect(),
+    );
+    let f = m.fit;
+    let decay = match f.family {
+        Family::Exponential => {
+            format!("family = \"exponential\"\nic1 = {:.6}\nhalf_life = {:.4}", f.amplitude, f.shape1)
+        }
+        Family::Power => format!("family = \"power\"\nic1 = {:.6}\nexponent = {:.4}", f.amplitude, f.shape1),
+        Family::Linear => format!("family = \"linear\"\nic1 = {:.6}\nzero_at = {:.4}", f.amplitude, f.shape1),
+        Family::Hump => {
+            format!("family = \"hump\"\npeak = {:.6}\npeak_lag = {:.4}\nshape = {:.4}", f.amplitude, f.shape1, f.shape2)
+        }
+    };
+    let mut text = String::new();
+    let _ = writeln!(text, "# Calibrated by `lagfold measure` from a measured panel; edit freely.");
+    let _ = writeln!(text, "name = \"{name}\"");
+    let _ = writeln!(
+        text,
+        "description = \"Calibrated to a measured panel: breadth, history, fitted decay, persistence, IC volatility\""
+    );
+    let _ = writeln!(text, "assets = {}", (assets as usize).max(10));
+    let _ = writeln!(text, "history = {}", p.dates);
+    let _ = writeln!(text, "horizons = {}", m.horizons);
+    let _ = writeln!(text, "periods_per_year = {}", periods_per_year(m.median_gap_days));
+    let _ = writeln!(text, "residual_vol = {:.6}", if vol.is_finite() && vol > 0.0 { vol } else { 0.01 });
+    let _ = writeln!(
+        text,
+        "forecast_autocorrelation = {:.4}",
+        m.forecast_autocorrelation.unwrap_or(0.0).clamp(-0.98, 0.98)
+    );
+    let _ = writeln!(text, "ic_vol = {:.4}", m.ic_volatility.unwrap_or(0.0).clamp(0.0, 0.5));
+    let _ = writeln!(text, "paths = {paths}\nseed = {seed}\n\n[decay]\n{decay}");
+    let s = scenario::load(&text, "calibrated.toml", name, &Overrides::default()).map_err(|e| e.to_string())?;
+    // The model and its truth must exist too (a negative fitted IC has no optimum).
+    crate::study::Setup::new(s.clone()).map_err(|e| e.to_string())?;
+    Ok((text, s))
+}
