@@ -54,6 +54,20 @@ fn a_simulated_panel_measures_as_in_memory() {
     assert!((m["forecast_autocorrelation"].as_f64().unwrap() - 0.8).abs() < 0.01);
     assert_eq!(m["rank_ic"]["mean"].as_array().unwrap().len(), 12);
     assert_eq!(m["dates_used"], 119);
+    // And it recovers the scenario's curve within its standard errors: four
+    // Newey–West errors (which understate by about 10 % at these lags,
+    // DEVELOPERS.md), plus Fisher's O(1/N) bias, at lags 1–3.
+    let se: Vec<f64> = m["lagged_ic"]["se"].as_array().unwrap().iter().map(|v| v.as_f64().unwrap()).collect();
+    for k in 0..3 {
+        let truth = setup.truth.lagged_ic[k];
+        assert!(
+            (got[k] - truth).abs() < 4.0 * se[k] + truth / 300.0,
+            "lag {}: {} vs truth {truth}, se {}",
+            k + 1,
+            got[k],
+            se[k]
+        );
+    }
     for rule in ["peak", "formula", "fitted"] {
         assert!((1..=12).contains(&m["best_horizon"][rule].as_u64().unwrap()));
     }

@@ -182,8 +182,8 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
     }
     let _ = writeln!(
         out,
-        "\n  {:>4}  {:>9}  {:>8}  {:>6}  {:>10}  {:>8}  {:>6}  {:>9}",
-        "n", "IC", "se", "t", "horizon IC", "se", "t", "fitted IC"
+        "\n  {:>4}  {:>9}  {:>8}  {:>6}  {:>9}  {:>10}  {:>8}  {:>6}  {:>9}",
+        "n", "IC", "se", "t", "rank IC", "horizon IC", "se", "t", "fitted IC"
     );
     let f = |x: Option<f64>, p: usize| x.map_or("—".to_string(), |v| format!("{v:.p$}"));
     for i in 0..m.lagged_ic.mean.len() {
