@@ -1,16 +1,15 @@
 //! `lagfold measure <panel.csv>`: measure the decay of a user's own signal
 //! with the very estimators the study uses.
 
-use super::run::{StudyArgs, threads};
-use super::{Failure, print, progress};
+use super::run::{StudyArgs, truth_and_study};
+use super::{Failure, print};
 use crate::calibrate;
 use crate::measure::rules::choose;
 use crate::measure::{Measurement, bootstrap, extras, fit, sign};
-use crate::portfolio::PortfolioTruth;
 use crate::reader::{ReadOptions, read_panel};
 use crate::report::{self, BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult};
 use crate::stats::quantile_sorted;
-use crate::study::{self, Setup};
+use crate::study::Setup;
 use std::path::{Path, PathBuf};
 
 /// Options of `measure`.
@@ -104,14 +103,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
 /// picks the right horizon.
 fn calibrated_study(scenario: crate::scenario::Scenario, a: &StudyArgs) -> Result<CalibratedStudy, Failure> {
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("calibrated.toml: {e}")))?;
-    let threads = threads(a);
-    let s = &setup.scenario;
-    let bar = progress::bar(s.portfolio.reference_paths, a.quiet, "reference");
-    let truth = PortfolioTruth::compute(&setup, threads, &|d| bar.set_position(d as u64));
-    bar.finish_and_clear();
-    let bar = progress::bar(s.paths, a.quiet, "study");
-    let r = study::run(&setup, &truth, &[], threads, &|d| bar.set_position(d as u64));
-    bar.finish_and_clear();
+    let (_, r) = truth_and_study(&setup, a, &[]);
     let rules = [&r.rules.peak, &r.rules.formula, &r.rules.fitted];
     Ok(CalibratedStudy {
         scenario_file: "calibrated.toml".into(),

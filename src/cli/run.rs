@@ -64,6 +64,19 @@ impl StudyArgs {
     }
 }
 
+/// The portfolio truth's reference simulation, then the study, each with its
+/// progress bar.
+pub fn truth_and_study(setup: &Setup, a: &StudyArgs, sweep: &[f64]) -> (PortfolioTruth, study::StudyResult) {
+    let (threads, s) = (threads(a), &setup.scenario);
+    let bar = progress::bar(s.portfolio.reference_paths, a.quiet, "reference");
+    let portfolio = PortfolioTruth::compute(setup, threads, &|done| bar.set_position(done as u64));
+    bar.finish_and_clear();
+    let bar = progress::bar(s.paths, a.quiet, "study");
+    let result = study::run(setup, &portfolio, sweep, threads, &|done| bar.set_position(done as u64));
+    bar.finish_and_clear();
+    (portfolio, result)
+}
+
 /// Worker threads: `--threads`, or every core.
 pub fn threads(a: &StudyArgs) -> usize {
     a.threads.map_or_else(|| std::thread::available_parallelism().map_or(1, |n| n.get()), usize::from)
@@ -150,15 +163,8 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     }
     let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(&scenario.name));
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
-    let threads = threads(a);
-    let s = &setup.scenario;
-    let bar = progress::bar(s.portfolio.reference_paths, a.quiet, "reference");
-    let portfolio = PortfolioTruth::compute(&setup, threads, &|done| bar.set_position(done as u64));
-    bar.finish_and_clear();
-    let bar = progress::bar(s.paths, a.quiet, "study");
     let sweep = if a.cost_bps.len() > 1 { a.cost_bps.clone() } else { Vec::new() };
-    let result = study::run(&setup, &portfolio, &sweep, threads, &|done| bar.set_position(done as u64));
-    bar.finish_and_clear();
+    let (portfolio, result) = truth_and_study(&setup, a, &sweep);
     let summary = Summary::new(&setup, &portfolio, &result);
     let mut files = vec![
         ("summary.json", report::summary_json(&summary)),
