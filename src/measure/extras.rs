@@ -2,25 +2,19 @@
 //! volatility beyond sampling noise, and the observed sign hit rate.
 
 use super::Panel;
+use super::masked::{observed_mean, pearson};
 
-/// Pearson correlation over the pairs where both values are finite.
+/// Pearson correlation over the pairs where both values are finite, and
+/// their number (sums in one pass, as on the missing-value path).
 fn corr_finite(x: &[f64], y: &[f64]) -> Option<(f64, usize)> {
-    let pairs: Vec<(f64, f64)> =
-        x.iter().zip(y).filter(|(a, b)| a.is_finite() && b.is_finite()).map(|(a, b)| (*a, *b)).collect();
-    let n = pairs.len();
-    if n < 3 {
-        return None;
+    let (mx, my) = (observed_mean(x), observed_mean(y)); // centring only helps accuracy
+    let mut s = [0.0f64; 6];
+    for (a, b) in x.iter().zip(y).filter(|(a, b)| a.is_finite() && b.is_finite()) {
+        let (u, v) = (a - mx, b - my);
+        s = [s[0] + 1.0, s[1] + u, s[2] + v, s[3] + u * u, s[4] + v * v, s[5] + u * v];
     }
-    let (mx, my) = pairs.iter().fold((0.0, 0.0), |(a, b), (x, y)| (a + x, b + y));
-    let (mx, my) = (mx / n as f64, my / n as f64);
-    let (mut sxy, mut sxx, mut syy) = (0.0, 0.0, 0.0);
-    for (x, y) in &pairs {
-        sxy += (x - mx) * (y - my);
-        sxx += (x - mx) * (x - mx);
-        syy += (y - my) * (y - my);
-    }
-    let r = sxy / (sxx * syy).sqrt();
-    r.is_finite().then_some((r, n))
+    let r = pearson(s[0], s[1], s[2], s[3], s[4], s[5]);
+    (s[0] >= 3.0 && r.is_finite()).then_some((r, s[0] as usize))
 }
 
 /// Mean over dates of the cross-sectional correlation of the forecast with

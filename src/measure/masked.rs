@@ -9,14 +9,14 @@
 use super::PerDate;
 
 /// Pearson correlation from the sums of `n` pairs (`None` without variance).
-fn pearson(n: f64, sx: f64, sy: f64, sxx: f64, syy: f64, sxy: f64) -> f64 {
+pub(crate) fn pearson(n: f64, sx: f64, sy: f64, sxx: f64, syy: f64, sxy: f64) -> f64 {
     let cov = sxy - sx * sy / n;
     let (vx, vy) = (sxx - sx * sx / n, syy - sy * sy / n);
     cov / (vx * vy).sqrt()
 }
 
 /// Mean of the finite values of a row (0 when none).
-fn observed_mean(row: &[f64]) -> f64 {
+pub(crate) fn observed_mean(row: &[f64]) -> f64 {
     let (s, c) = row.iter().filter(|x| x.is_finite()).fold((0.0, 0usize), |(s, c), x| (s + x, c + 1));
     if c == 0 { 0.0 } else { s / c as f64 }
 }

@@ -229,8 +229,8 @@ impl Measurement {
                 cov += c;
                 // ‖Σ_{j<k} r_j‖² grows by ‖r‖² + 2·Σ_{j<k−1} ⟨r_{date+j}, r⟩
                 var += r_ss + 2.0 * (0..k - 1).map(|j| gram[(date + j) * l + (k - 1 - j)]).sum::<f64>();
-                push(&mut self.lagged, k, date, c / (f_ss * r_ss).sqrt());
-                push(&mut self.horizon, k, date, cov / (f_ss * var).sqrt());
+                self.lagged.push(k, date, c / (f_ss * r_ss).sqrt());
+                self.horizon.push(k, date, cov / (f_ss * var).sqrt());
             }
         }
     }
@@ -257,14 +257,10 @@ impl Measurement {
         for date in 0..t - 1 {
             let f_ss = sums::sum_sq(&self.rank_f[date * n..(date + 1) * n]);
             for k in 1..=l.min(t - 1 - date) {
-                push(&mut self.rank_lagged, k, date, cross[date * l + k - 1] / (f_ss * r_ss[date + k - 1]).sqrt());
+                self.rank_lagged.push(k, date, cross[date * l + k - 1] / (f_ss * r_ss[date + k - 1]).sqrt());
             }
         }
     }
-}
-
-fn push(p: &mut PerDate, k: usize, date: usize, v: f64) {
-    p.push(k, date, v);
 }
 
 impl PerDate {
