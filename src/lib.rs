@@ -7,6 +7,7 @@
 
 pub mod calendar;
 pub mod calibrate;
+pub mod chart;
 pub mod cli;
 pub mod decay;
 pub mod error;

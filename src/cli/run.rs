@@ -39,6 +39,9 @@ pub struct StudyArgs {
     /// No progress bar and no summary on the terminal.
     #[arg(long, short)]
     pub quiet: bool,
+    /// Skip the charts (the report then has no pictures).
+    #[arg(long)]
+    pub no_charts: bool,
 }
 
 /// Options of `run`.
@@ -146,6 +149,11 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
     Ok(())
 }
 
+/// Draws the charts unless `--no-charts`.
+pub fn charts(skip: bool, build: impl FnOnce() -> Vec<crate::chart::Chart>) -> Result<report::ChartSet, Failure> {
+    if skip { Ok(report::ChartSet::default()) } else { report::ChartSet::render(&build()).map_err(Failure::other) }
+}
+
 /// `lagfold demo`.
 pub fn demo(a: &StudyArgs) -> Result<(), Failure> {
     let origin = format!("preset {}", presets::DEFAULT);
@@ -167,18 +175,22 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     let (portfolio, result) = truth_and_study(&setup, a, &sweep);
     let summary = Summary::new(&setup, &portfolio, &result);
     let mut files = vec![
-        ("summary.json", report::summary_json(&summary)),
-        ("curves.csv", report::curves_csv(&setup, &result)),
-        ("choices.csv", report::choices_csv(&setup, &result)),
-        ("holding.csv", report::holding_csv(&portfolio, &result)),
+        ("summary.json".to_string(), report::summary_json(&summary)),
+        ("curves.csv".into(), report::curves_csv(&setup, &result)),
+        ("choices.csv".into(), report::choices_csv(&setup, &result)),
+        ("holding.csv".into(), report::holding_csv(&portfolio, &result)),
     ];
     if !sweep.is_empty() {
-        files.push(("cost_sweep.csv", report::cost_sweep_csv(&result)));
+        files.push(("cost_sweep.csv".into(), report::cost_sweep_csv(&result)));
     }
+    let charts = charts(a.no_charts, || report::study_charts(&setup, &portfolio, &result))?;
+    files.extend(charts.files);
+    let page = report::html::study_page(&setup, &portfolio, &result, charts.inline);
+    files.push(("report.html".into(), report::html::render(&page)));
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.quiet {
         let mut text = report::terminal_summary(&setup, &portfolio, &result);
-        let names: Vec<&str> = files.iter().map(|(n, _)| *n).collect();
+        let names: Vec<&str> = files.iter().map(|(n, _)| n.as_str()).filter(|n| !n.ends_with(".svg")).collect();
         text.push_str(&format!("\nOutputs: {} ({})\n", out_dir.display(), names.join(", ")));
         print(&text)?;
     }

@@ -1,7 +1,9 @@
 //! Stage 5: what users read. Exporters are pure functions from results to
 //! bytes; [`write_atomically`] puts them in place only once all are written.
 
+mod charts;
 mod csv_tables;
+pub mod html;
 mod measure_out;
 mod panel_csv;
 mod plan;
@@ -11,6 +13,7 @@ mod summary;
 mod sweep;
 mod terminal;
 
+pub use charts::{ChartSet, regret_bin_names, regret_shares, study_charts};
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
 pub use measure_out::{
     BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult, measure_csv, measure_json,
@@ -32,11 +35,12 @@ use std::path::Path;
 ///
 /// # Errors
 /// Any I/O error, naming the file.
-pub fn write_atomically(dir: &Path, files: &[(&str, Vec<u8>)]) -> std::io::Result<()> {
+pub fn write_atomically<N: AsRef<str>>(dir: &Path, files: &[(N, Vec<u8>)]) -> std::io::Result<()> {
     let named = |e: std::io::Error, p: &Path| std::io::Error::new(e.kind(), format!("{}: {e}", p.display()));
     std::fs::create_dir_all(dir).map_err(|e| named(e, dir))?;
     let mut staged = Vec::with_capacity(files.len());
     for (name, bytes) in files {
+        let name = name.as_ref();
         let tmp = dir.join(format!(".{name}.tmp-{}", std::process::id()));
         let mut f = std::fs::File::create(&tmp).map_err(|e| named(e, &tmp))?;
         f.write_all(bytes).and_then(|()| f.sync_all()).map_err(|e| named(e, &tmp))?;

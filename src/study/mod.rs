@@ -118,6 +118,10 @@ pub struct SweepRow {
     pub true_near_best: Vec<usize>,
     /// The net-IR rule at this cost.
     pub measured: RuleStats,
+    /// True annualised net IR per holding length at this cost (index 0 = holding 1).
+    pub true_net_ir_curve: Vec<f64>,
+    /// Each history's measured annualised net IR per holding length at this cost.
+    pub measured_net_ir: CurveStats,
 }
 
 fn sweep_row(setup: &Setup, portfolio: &PortfolioTruth, bps: f64, outcomes: &Outcomes) -> SweepRow {
@@ -132,7 +136,17 @@ fn sweep_row(setup: &Setup, portfolio: &PortfolioTruth, bps: f64, outcomes: &Out
         true_net_ir_se: se[best - 1],
         true_near_best: near_set(&ir, setup.scenario.near_best_tolerance),
         measured: net_ir_rule(setup, &ir, &net_vol, c, outcomes),
+        measured_net_ir: net_ir_bands(outcomes, c, ppy, ir.len()),
+        true_net_ir_curve: ir,
     }
+}
+
+/// Bands of each history's measured annualised net IR per holding length at one-way cost `c`.
+fn net_ir_bands(outcomes: &Outcomes, c: f64, ppy: f64, len: usize) -> CurveStats {
+    curve_stats_owned(
+        (0..outcomes.paths()).map(|p| outcomes.books(p).iter().map(|b| b.ir(c, ppy)).collect()).collect(),
+        len,
+    )
 }
 
 fn curve_stats_owned(rows: Vec<Vec<f64>>, len: usize) -> CurveStats {
@@ -187,10 +201,7 @@ pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes)
             net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear.net_vol, c, outcomes),
         },
         cost_bps: portfolio.cost_bps,
-        net_ir: curve_stats_owned(
-            (0..outcomes.paths()).map(|p| outcomes.books(p).iter().map(|b| b.ir(c, ppy)).collect()).collect(),
-            l,
-        ),
+        net_ir: net_ir_bands(outcomes, c, ppy, l),
         cost_sweep: Vec::new(),
         fitted_families,
         lagged_ic: curve_stats(|p| outcomes.lagged(p), outcomes.paths(), l),

@@ -1,0 +1,35 @@
+//! Which charts each command draws, built from its aggregated results and
+//! rendered once, after the simulation, as SVG and PNG.
+
+mod parts;
+mod study;
+
+pub use study::{regret_bin_names, regret_shares, study_charts};
+
+use crate::chart::{Chart, ChartError};
+
+/// Charts drawn: their files and, for the report, each chart's SVG and caption.
+#[derive(Debug, Default)]
+pub struct ChartSet {
+    /// `(file name, bytes)`: `name.svg` and `name.png` per chart.
+    pub files: Vec<(String, Vec<u8>)>,
+    /// `(title, caption, svg)` per chart, in order.
+    pub inline: Vec<(String, String, String)>,
+}
+
+impl ChartSet {
+    /// Renders every chart.
+    ///
+    /// # Errors
+    /// When a chart cannot be drawn.
+    pub fn render(charts: &[Chart]) -> Result<Self, ChartError> {
+        let mut set = Self::default();
+        for c in charts {
+            let r = c.render()?;
+            set.files.push((format!("{}.svg", c.name), r.svg.clone().into_bytes()));
+            set.files.push((format!("{}.png", c.name), r.png));
+            set.inline.push((c.title.clone(), c.caption.clone(), r.svg));
+        }
+        Ok(set)
+    }
+}

@@ -1,0 +1,230 @@
+//! `report.html`: one self-contained page per output folder. Summary in plain
+//! words first, then the charts (inline SVG) with captions, the parameters,
+//! the Monte Carlo error of every figure, the methods with their sources and
+//! the cautions. Every figure printed carries the JSON pointer of the value it
+//! shows in the command's JSON document (`data-json`) and that value in full
+//! (`data-value`), so a test can check the two agree.
+
+mod study;
+
+pub use study::study_page;
+
+use super::summary::CAUTION;
+use std::fmt::Write;
+
+/// How a figure is shown.
+#[derive(Debug, Clone, Copy)]
+pub enum Fmt {
+    /// A share shown as a percentage with this many decimals.
+    Pct(usize),
+    /// A number with this many decimals.
+    Num(usize),
+}
+
+/// A figure in the page: its text, tagged with where it lives in the JSON
+/// document and its full value.
+pub fn fig(pointer: &str, value: f64, f: Fmt) -> String {
+    let text = match f {
+        Fmt::Pct(d) => format!("{:.d$}%", 100.0 * value),
+        Fmt::Num(d) => format!("{value:.d$}"),
+    };
+    let scale = if matches!(f, Fmt::Pct(_)) { "100" } else { "1" };
+    format!(r#"<span class="fig" data-json="{pointer}" data-value="{value}" data-scale="{scale}">{text}</span>"#)
+}
+
+/// A whole number from the JSON document.
+pub fn int(pointer: &str, value: usize) -> String {
+    fig(pointer, value as f64, Fmt::Num(0))
+}
+
+/// One row of the Monte Carlo error table.
+#[derive(Debug, Clone)]
+pub struct ErrRow {
+    /// What the figure is.
+    pub what: String,
+    /// The estimate (a [`fig`]).
+    pub value: String,
+    /// Its Monte Carlo standard error (a [`fig`]), or why there is none.
+    pub se: String,
+}
+
+impl ErrRow {
+    /// A row from a label and two figures.
+    pub fn new(what: impl Into<String>, value: String, se: String) -> Self {
+        Self { what: what.into(), value, se }
+    }
+}
+
+/// A plain table (header and rows of HTML cells).
+#[derive(Debug, Clone, Default)]
+pub struct Table {
+    /// Heading above the table.
+    pub heading: String,
+    /// Column names.
+    pub header: Vec<String>,
+    /// Cells, already HTML.
+    pub rows: Vec<Vec<String>>,
+}
+
+/// Everything on a page.
+#[derive(Debug, Clone, Default)]
+pub struct Page {
+    /// Title of the page.
+    pub title: String,
+    /// The plain-language summary, sentences in HTML.
+    pub summary: Vec<String>,
+    /// `(title, caption, svg)` per chart.
+    pub charts: Vec<(String, String, String)>,
+    /// Result tables shown after the charts.
+    pub tables: Vec<Table>,
+    /// The parameters as a JSON object (flattened into rows).
+    pub parameters: serde_json::Value,
+    /// Monte Carlo error of every figure.
+    pub errors: Vec<ErrRow>,
+    /// Free text above the error table (how the errors were computed).
+    pub errors_note: String,
+    /// `(what, how and source)` per method.
+    pub methods: Vec<(String, String)>,
+}
+
+/// HTML-escapes text.
+pub fn esc(s: &str) -> String {
+    s.replace('&', "&amp;").replace('<', "&lt;").replace('>', "&gt;").replace('"', "&quot;")
+}
+
+const STYLE: &str = "\
+body{font-family:'DejaVu Sans',Verdana,Arial,sans-serif;color:#1a1a1a;max-width:62rem;margin:0 auto;padding:1rem 1.2rem 3rem;line-height:1.5}\
+h1{font-size:1.6rem;margin:.6rem 0 .2rem}h2{font-size:1.25rem;margin-top:2.2rem;border-bottom:2px solid #0072b2;padding-bottom:.2rem}\
+.lead{font-size:1.08rem;background:#f2f7fb;border-left:4px solid #0072b2;padding:.6rem 1rem}\
+figure{margin:1.4rem 0;break-inside:avoid;page-break-inside:avoid}figure svg{width:100%;height:auto;display:block}\
+figcaption{font-size:.95rem;color:#333;margin-top:.3rem}\
+table{border-collapse:collapse;margin:.6rem 0;font-size:.92rem;font-variant-numeric:tabular-nums;display:block;overflow-x:auto}\
+th,td{padding:.25rem .6rem;border-bottom:1px solid #ddd;text-align:left;vertical-align:top}td.n{text-align:right}th{background:#f4f4f4}\
+.caution{background:#fff6e5;border-left:4px solid #e69f00;padding:.6rem 1rem}.muted{color:#555;font-size:.9rem}\
+@media print{body{max-width:none;font-size:10pt}h2{break-after:avoid}}";
+
+/// The whole page.
+pub fn render(page: &Page) -> Vec<u8> {
+    let mut h = String::with_capacity(64 * 1024 + page.charts.iter().map(|c| c.2.len()).sum::<usize>());
+    let _ = write!(
+        h,
+        "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n\
+         <meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n\
+         <title>{}</title>\n<style>{STYLE}</style>\n</head>\n<body>\n<header><h1>{}</h1>\
+         <p class=\"muted\">lagfold {} · simulations under stated assumptions, not investment advice</p></header>\n",
+        esc(&page.title),
+        esc(&page.title),
+        env!("CARGO_PKG_VERSION")
+    );
+    let _ = write!(h, "<section id=\"summary\">\n<h2>Summary</h2>\n<p class=\"lead\">{}</p>\n</section>\n", page.summary.join(" "));
+    h.push_str("<section id=\"charts\">\n<h2>Charts</h2>\n");
+    if page.charts.is_empty() {
+        h.push_str("<p class=\"muted\">Charts were not drawn (<code>--no-charts</code>).</p>\n");
+    }
+    for (title, caption, svg) in &page.charts {
+        let _ = write!(
+            h,
+            "<figure role=\"img\" aria-label=\"{}\">\n{}\n<figcaption>{}</figcaption>\n</figure>\n",
+            esc(title),
+            inline_svg(svg),
+            esc(caption)
+        );
+    }
+    for t in &page.tables {
+        let _ = write!(h, "<h3>{}</h3>\n{}", esc(&t.heading), table(&t.header, &t.rows));
+    }
+    h.push_str("</section>\n<section id=\"parameters\">\n<h2>Parameters</h2>\n");
+    let rows: Vec<Vec<String>> = flatten(&page.parameters).into_iter().map(|(k, v)| vec![esc(&k), esc(&v)]).collect();
+    h.push_str(&table(&["parameter".into(), "value".into()], &rows));
+    h.push_str("</section>\n<section id=\"mc-error\">\n<h2>Monte Carlo error</h2>\n");
+    let _ = writeln!(h, "<p>{}</p>", page.errors_note);
+    let rows: Vec<Vec<String>> = page.errors.iter().map(|r| vec![esc(&r.what), r.value.clone(), r.se.clone()]).collect();
+    h.push_str(&table(&["figure".into(), "estimate".into(), "Monte Carlo standard error".into()], &rows));
+    h.push_str("</section>\n<section id=\"methods\">\n<h2>Methods and sources</h2>\n<ul>\n");
+    for (what, how) in &page.methods {
+        let _ = writeln!(h, "<li><strong>{}.</strong> {}</li>", esc(what), esc(how));
+    }
+    h.push_str("</ul>\n</section>\n<section id=\"cautions\">\n<h2>Cautions</h2>\n");
+    let _ = write!(
+        h,
+        "<p class=\"caution\">{} The figures describe simulated histories drawn from the model and parameters \
+         above; real signals and markets can differ in ways the model leaves out.</p>\n</section>\n</body>\n</html>\n",
+        esc(CAUTION)
+    );
+    h.into_bytes()
+}
+
+/// The chart's SVG for inlining: the namespace attribute is implied in HTML.
+fn inline_svg(svg: &str) -> String {
+    svg.replacen(" xmlns=\"http://www.w3.org/2000/svg\"", "", 1)
+}
+
+fn table(header: &[String], rows: &[Vec<String>]) -> String {
+    let mut h = String::from("<table>\n<thead><tr>");
+    for c in header {
+        let _ = write!(h, "<th>{c}</th>");
+    }
+    h.push_str("</tr></thead>\n<tbody>\n");
+    for r in rows {
+        h.push_str("<tr>");
+        for c in r {
+            let numeric = c.starts_with("<span class=\"fig\"") || c.parse::<f64>().is_ok();
+            let _ = write!(h, "<td{}>{c}</td>", if numeric { " class=\"n\"" } else { "" });
+        }
+        h.push_str("</tr>\n");
+    }
+    h.push_str("</tbody>\n</table>\n");
+    h
+}
+
+/// `a.b.c = value` rows of a JSON object; arrays shown compactly.
+fn flatten(v: &serde_json::Value) -> Vec<(String, String)> {
+    fn go(prefix: &str, v: &serde_json::Value, out: &mut Vec<(String, String)>) {
+        match v {
+            serde_json::Value::Object(m) => {
+                for (k, x) in m {
+                    let key = if prefix.is_empty() { k.clone() } else { format!("{prefix}.{k}") };
+                    go(&key, x, out);
+                }
+            }
+            serde_json::Value::String(s) => out.push((prefix.into(), s.clone())),
+            other => {
+                let mut s = other.to_string();
+                if s.chars().count() > 240 {
+                    s = s.chars().take(240).collect::<String>() + " …";
+                }
+                out.push((prefix.into(), s));
+            }
+        }
+    }
+    let mut out = Vec::new();
+    go("", v, &mut out);
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn figures_carry_their_pointer_and_full_value() {
+        let f = fig("/study/rules/peak/hit_rate", 0.22949999999999998, Fmt::Pct(1));
+        assert!(f.contains(r#"data-json="/study/rules/peak/hit_rate""#));
+        assert!(f.contains(r#"data-value="0.22949999999999998""#));
+        assert!(f.ends_with(">22.9%</span>"));
+    }
+
+    #[test]
+    fn parameters_flatten_with_dotted_keys() {
+        let v = serde_json::json!({"a": 1, "b": {"c": "x", "d": [1, 2]}});
+        assert_eq!(
+            flatten(&v),
+            vec![("a".into(), "1".into()), ("b.c".into(), "x".into()), ("b.d".into(), "[1,2]".into())]
+        );
+    }
+
+    #[test]
+    fn text_is_escaped() {
+        assert_eq!(esc("<a & \"b\">"), "&lt;a &amp; &quot;b&quot;&gt;");
+    }
+}

@@ -1,0 +1,194 @@
+//! The report of a study (`run`, `demo`); figures point into `summary.json`.
+
+use super::{ErrRow, Fmt, Page, fig, int};
+use crate::measure::rules::Rule;
+use crate::portfolio::PortfolioTruth;
+use crate::report::period_word;
+use crate::study::{RuleStats, Setup, StudyResult};
+
+/// How the simulation, truth, estimators and rules work, with their sources.
+pub fn study_methods() -> Vec<(String, String)> {
+    [
+        (
+            "Simulation",
+            "Forecasts are AR(1) standard normal scores; returns load on past forecast news so that the expected \
+             per-date lagged IC follows the stated decay curve, plus a common per-period IC shock and idiosyncratic \
+             noise (normal or Student t). Every history is stationary from its first date.",
+        ),
+        (
+            "Truth",
+            "The true horizon IC is the expected per-date correlation of the forecast with returns summed over n \
+             periods at large breadth; the simple form sum of IC_k / sqrt(n) follows Qian, Hua and Sorensen (2007).",
+        ),
+        (
+            "Estimators",
+            "Per-date Pearson correlations (Spearman on request) averaged over dates; standard errors by Newey and \
+             West (1987) with at least 2n lags at horizon n, more when Andrews' (1991) plug-in bandwidth asks.",
+        ),
+        (
+            "Rules",
+            "peak: the horizon where the measured horizon IC is largest; formula: the peak of the sum of measured \
+             lagged ICs over sqrt(n) (Qian, Hua and Sorensen, 2007); fitted: the optimum of a decay curve fitted to \
+             the measured lagged ICs, family chosen by Akaike's (1974) criterion; net IR: the holding length whose \
+             measured net information ratio is best.",
+        ),
+        (
+            "Holding-period books",
+            "Staggered tranche books for every holding length with weights proportional to the demeaned forecast; \
+             cost is the one-way cost times the traded notional. The information ratio follows Grinold and Kahn \
+             (2000); the true net IR comes from a long reference simulation whose Monte Carlo error is stated.",
+        ),
+        (
+            "Study figures",
+            "Exact hit, within one period, in the near-best set, regret (the share of the best value given up) and \
+             the winner's curse (compare Bailey and López de Prado, 2014). Proportions carry the binomial standard \
+             error sqrt(p(1 - p)/paths); means carry sd/sqrt(paths). Bands are quantiles over histories (Hyndman and \
+             Fan, 1996, type 7).",
+        ),
+        ("Charts", "Colours from the Okabe and Ito (2008) palette, distinguishable under common colour-vision deficiencies."),
+    ]
+    .into_iter()
+    .map(|(a, b)| (a.to_string(), b.to_string()))
+    .collect()
+}
+
+/// Rows of the error table for one rule's record; `at` is its JSON pointer.
+pub fn rule_error_rows(name: &str, r: &RuleStats, at: &str) -> Vec<ErrRow> {
+    let opt = |p: &str, v: Option<f64>, f: Fmt| v.map_or_else(|| "n/a (one path)".to_string(), |v| fig(p, v, f));
+    let mut rows = vec![
+        ErrRow::new(
+            format!("{name}: exact hit rate"),
+            fig(&format!("{at}/hit_rate"), r.hit_rate, Fmt::Pct(1)),
+            fig(&format!("{at}/hit_rate_se"), r.hit_rate_se, Fmt::Pct(2)),
+        ),
+        ErrRow::new(
+            format!("{name}: within one period"),
+            fig(&format!("{at}/near_hit_rate"), r.near_hit_rate, Fmt::Pct(1)),
+            fig(&format!("{at}/near_hit_rate_se"), r.near_hit_rate_se, Fmt::Pct(2)),
+        ),
+        ErrRow::new(
+            format!("{name}: in the near-best set"),
+            fig(&format!("{at}/near_best_rate"), r.near_best_rate, Fmt::Pct(1)),
+            fig(&format!("{at}/near_best_rate_se"), r.near_best_rate_se, Fmt::Pct(2)),
+        ),
+        ErrRow::new(
+            format!("{name}: mean regret (share of best)"),
+            fig(&format!("{at}/regret_rel_mean"), r.regret_rel_mean, Fmt::Pct(2)),
+            opt(&format!("{at}/regret_rel_mean_se"), r.regret_rel_mean_se, Fmt::Pct(2)),
+        ),
+        ErrRow::new(
+            format!("{name}: mean winner's curse"),
+            fig(&format!("{at}/winners_curse_mean"), r.winners_curse_mean, Fmt::Num(4)),
+            opt(&format!("{at}/winners_curse_mean_se"), r.winners_curse_mean_se, Fmt::Num(4)),
+        ),
+    ];
+    if let Some(bps) = r.regret_bps_year_mean {
+        rows.push(ErrRow::new(
+            format!("{name}: mean regret (bps a year)"),
+            fig(&format!("{at}/regret_bps_year_mean"), bps, Fmt::Num(1)),
+            opt(&format!("{at}/regret_bps_year_mean_se"), r.regret_bps_year_mean_se, Fmt::Num(1)),
+        ));
+    }
+    rows
+}
+
+/// The note above every error table of a simulation.
+pub const ERRORS_NOTE: &str = "Each figure below is an average over simulated histories, so it carries Monte Carlo \
+error: with another seed it would move by about one standard error. More paths shrink it as 1/sqrt(paths).";
+
+/// The report page of a study.
+pub fn study_page(
+    setup: &Setup,
+    portfolio: &PortfolioTruth,
+    study: &StudyResult,
+    charts: Vec<(String, String, String)>,
+) -> Page {
+    let (s, t, lin) = (&setup.scenario, &setup.truth, &portfolio.linear);
+    let unit = period_word(s.periods_per_year);
+    let (best, hold) = (t.best_horizon, lin.best_holding);
+    let peak = &study.rules.peak;
+    let best_rule = [Rule::Peak, Rule::Formula, Rule::Fitted]
+        .into_iter()
+        .min_by(|a, b| study.rules.get(*a).regret_rel_mean.total_cmp(&study.rules.get(*b).regret_rel_mean))
+        .unwrap_or(Rule::Peak);
+    let br = study.rules.get(best_rule);
+    let ni = &study.rules.net_ir;
+    let summary = vec![
+        format!(
+            "lagfold simulated {} histories of {} {unit}s of a forecast on {} assets whose true best holding horizon \
+             is {} {unit}s, where the true horizon IC is {}.",
+            int("/study/paths", study.paths),
+            int("/scenario/history", s.history),
+            int("/scenario/assets", s.assets),
+            int("/truth/best_horizon", best),
+            fig(&format!("/truth/horizon_ic/{}", best - 1), t.horizon_ic[best - 1], Fmt::Num(4)),
+        ),
+        format!(
+            "Picking the horizon where a history's measured horizon IC peaks landed exactly on it in {} of histories \
+             and within one {unit} of it in {}.",
+            fig("/study/rules/peak/hit_rate", peak.hit_rate, Fmt::Pct(1)),
+            fig("/study/rules/peak/near_hit_rate", peak.near_hit_rate, Fmt::Pct(1)),
+        ),
+        format!(
+            "A wrong pick usually costs little: on average that choice gave up {} of the best horizon IC, and the \
+             best of the three horizon rules ({}) gave up {}.",
+            fig("/study/rules/peak/regret_rel_mean", peak.regret_rel_mean, Fmt::Pct(1)),
+            rule_name(best_rule),
+            fig(&format!("/study/rules/{}/regret_rel_mean", best_rule.name()), br.regret_rel_mean, Fmt::Pct(1)),
+        ),
+        format!(
+            "After one-way costs of {} bps the best holding length is {} {unit}s with a true net information ratio \
+             of {}; choosing it from a history's own net IR gave up on average {} basis points a year.",
+            fig("/study/cost_bps", study.cost_bps, Fmt::Num(1)),
+            int("/truth/best_holding", hold),
+            fig(&format!("/truth/net_ir/{}", hold - 1), lin.net_ir[hold - 1], Fmt::Num(2)),
+            fig("/study/rules/net_ir/regret_bps_year_mean", ni.regret_bps_year_mean.unwrap_or(f64::NAN), Fmt::Num(1)),
+        ),
+    ];
+    let mut errors = vec![
+        ErrRow::new(
+            "true horizon IC at the best horizon",
+            fig(&format!("/truth/horizon_ic/{}", best - 1), t.horizon_ic[best - 1], Fmt::Num(4)),
+            fig("/truth/horizon_ic_integration_se", t.horizon_ic_integration_se, Fmt::Num(6)),
+        ),
+        ErrRow::new(
+            "true net IR at the best holding length",
+            fig(&format!("/truth/net_ir/{}", hold - 1), lin.net_ir[hold - 1], Fmt::Num(3)),
+            fig(&format!("/truth/portfolio/linear/net_ir_se/{}", hold - 1), lin.net_ir_se[hold - 1], Fmt::Num(3)),
+        ),
+    ];
+    for rule in [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr] {
+        errors.extend(rule_error_rows(rule_name(rule), study.rules.get(rule), &format!("/study/rules/{}", rule.name())));
+    }
+    for (i, row) in study.cost_sweep.iter().enumerate() {
+        errors.extend(rule_error_rows(
+            &format!("net IR rule at {} bps", row.cost_bps),
+            &row.measured,
+            &format!("/study/cost_sweep/{i}/measured"),
+        ));
+    }
+    Page {
+        title: format!("lagfold report: {}", s.name),
+        summary,
+        charts,
+        tables: Vec::new(),
+        parameters: serde_json::to_value(s).unwrap_or_default(),
+        errors,
+        errors_note: format!(
+            "{ERRORS_NOTE} The true curves are computed by integration (horizon IC) and by a reference simulation \
+             of {} histories (net IR), with the errors shown.",
+            portfolio.reference_paths
+        ),
+        methods: study_methods(),
+    }
+}
+
+/// The rule's name as the report writes it.
+pub fn rule_name(rule: Rule) -> &'static str {
+    match rule {
+        Rule::Peak => "peak",
+        Rule::Formula => "formula",
+        Rule::Fitted => "fitted",
+        Rule::NetIr => "net IR",
+    }
+}
