@@ -26,12 +26,33 @@ pub enum Metric {
 }
 
 impl Metric {
-    fn name(self) -> &'static str {
+    /// The name used in targets.
+    pub fn name(self) -> &'static str {
         match self {
             Metric::Hit => "hit",
             Metric::NearHit => "near-hit",
             Metric::NearBest => "near-best",
             Metric::Regret => "regret",
+        }
+    }
+
+    /// What the figure is, in words.
+    pub fn describe(self) -> &'static str {
+        match self {
+            Metric::Hit => "exact hit rate",
+            Metric::NearHit => "within-one-period hit rate",
+            Metric::NearBest => "near-best rate",
+            Metric::Regret => "mean regret (share of best)",
+        }
+    }
+
+    /// The JSON field of the figure in a rule's record.
+    pub fn field(self) -> &'static str {
+        match self {
+            Metric::Hit => "hit_rate",
+            Metric::NearHit => "near_hit_rate",
+            Metric::NearBest => "near_best_rate",
+            Metric::Regret => "regret_rel_mean",
         }
     }
 

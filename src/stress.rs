@@ -55,10 +55,14 @@ pub struct CurveTruth {
     pub horizon_ic: Vec<f64>,
     /// Its best horizon (1-based).
     pub best_horizon: usize,
+    /// Integration error of the horizon IC.
+    pub horizon_ic_integration_se: f64,
     /// True net IR of the linear book per holding length.
     pub net_ir: Vec<f64>,
     /// Its best holding length (1-based).
     pub best_holding: usize,
+    /// Monte Carlo error of the net IR (reference simulation).
+    pub net_ir_se: Vec<f64>,
 }
 
 /// Regret of choices made under each curve (rows) when each curve is true (columns).
@@ -133,8 +137,10 @@ pub fn run(
             lagged_ic: setup.truth.lagged_ic.clone(),
             best_horizon: setup.truth.best_horizon,
             horizon_ic: setup.truth.horizon_ic.clone(),
+            horizon_ic_integration_se: setup.truth.horizon_ic_integration_se,
             best_holding: p.linear.best_holding,
             net_ir: p.linear.net_ir,
+            net_ir_se: p.linear.net_ir_se,
         });
         progress(i + 1);
     }

@@ -52,24 +52,9 @@ pub struct XyPanel {
     pub y_percent: bool,
     /// Force y = 0 into the range.
     pub y_from_zero: bool,
-    /// What is drawn, in order (later on top).
+    /// What is drawn, in order (later on top); labelled layers are listed
+    /// in a legend strip right of the panel.
     pub layers: Vec<Layer>,
-    /// Where the legend goes.
-    pub legend: Corner,
-}
-
-/// Legend placement.
-#[derive(Debug, Clone, Copy, Default)]
-pub enum Corner {
-    /// Upper right.
-    #[default]
-    UpperRight,
-    /// Upper left.
-    UpperLeft,
-    /// Lower right.
-    LowerRight,
-    /// Lower left.
-    LowerLeft,
 }
 
 /// Something drawn on an [`XyPanel`]. An empty label leaves it out of the legend.

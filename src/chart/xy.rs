@@ -1,14 +1,22 @@
 //! Panels on numeric axes: bands, lines, bars, error bars and reference lines.
 
 use super::style::{axis_font, heading_font, label_font, rgb};
-use super::{Corner, Layer, PALETTE, XyPanel};
+use super::{Colour, Layer, PALETTE, XyPanel};
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
 type Fallible = Result<(), String>;
 
 /// Draws one panel into `area`.
-pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, p: &XyPanel) -> Fallible {
+pub fn draw<DB: DrawingBackend>(whole: &DrawingArea<DB, Shift>, p: &XyPanel) -> Fallible {
+    let labelled: Vec<&Layer> = p.layers.iter().filter(|l| !label(l).is_empty()).collect();
+    let (area, key) = if labelled.is_empty() {
+        (whole.clone(), None)
+    } else {
+        let (a, k) = whole.split_horizontally(whole.dim_in_pixel().0 as i32 - LEGEND_WIDTH);
+        (a, Some(k))
+    };
+    let area = &area;
     let (x0, x1) = x_range(p);
     let (y0, y1) = y_range(p);
     let mut builder = ChartBuilder::on(area);
@@ -48,20 +56,8 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, p: &XyPanel) -> F
     for layer in &p.layers {
         draw_layer(&mut chart, layer, (y0, y1), (x0, x1))?;
     }
-    if p.layers.iter().any(|l| !label(l).is_empty()) {
-        chart
-            .configure_series_labels()
-            .position(match p.legend {
-                Corner::UpperRight => SeriesLabelPosition::UpperRight,
-                Corner::UpperLeft => SeriesLabelPosition::UpperLeft,
-                Corner::LowerRight => SeriesLabelPosition::LowerRight,
-                Corner::LowerLeft => SeriesLabelPosition::LowerLeft,
-            })
-            .background_style(WHITE.mix(0.85))
-            .border_style(rgb(PALETTE.grey))
-            .label_font(label_font())
-            .draw()
-            .map_err(|e| e.to_string())?;
+    if let Some(key) = key {
+        legend(&key, &labelled, if p.heading.is_empty() { 20 } else { 44 })?;
     }
     Ok(())
 }
@@ -71,16 +67,12 @@ type Chart2d<'a, DB> =
 
 fn draw_layer<DB: DrawingBackend>(chart: &mut Chart2d<DB>, layer: &Layer, ys: (f64, f64), xs: (f64, f64)) -> Fallible {
     let err = |e: DrawingAreaErrorKind<DB::ErrorType>| e.to_string();
-    let name = label(layer);
     match layer {
         Layer::Band { x, lo, hi, colour, opacity, .. } => {
             let style = rgb(*colour).mix(*opacity).filled();
             let pts: Vec<(f64, f64)> =
                 x.iter().zip(hi).map(|(&a, &b)| (a, b)).chain(x.iter().zip(lo).rev().map(|(&a, &b)| (a, b))).collect();
-            let a = chart.draw_series(std::iter::once(Polygon::new(pts, style))).map_err(err)?;
-            if !name.is_empty() {
-                a.label(name).legend(move |(x, y)| Rectangle::new([(x, y - 6), (x + 20, y + 6)], style));
-            }
+            chart.draw_series(std::iter::once(Polygon::new(pts, style))).map_err(err)?;
         }
         Layer::Line { x, y, colour, width, dashed, markers, .. } => {
             let style = rgb(*colour).stroke_width(*width);
@@ -90,25 +82,19 @@ fn draw_layer<DB: DrawingBackend>(chart: &mut Chart2d<DB>, layer: &Layer, ys: (f
                     .draw_series(pts.iter().map(|&p| Circle::new(p, 3 + *width as i32, rgb(*colour).filled())))
                     .map_err(err)?;
             }
-            let a = if *dashed {
+            if *dashed {
                 chart.draw_series(DashedLineSeries::new(pts, 10, 6, style)).map_err(err)?
             } else {
                 chart.draw_series(LineSeries::new(pts, style)).map_err(err)?
             };
-            if !name.is_empty() {
-                a.label(name).legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], style));
-            }
         }
         Layer::Bars { x, y, offset, width, colour, .. } => {
             let style = rgb(*colour).filled();
-            let a = chart
+            chart
                 .draw_series(x.iter().zip(y).map(|(&a, &b)| {
                     Rectangle::new([(a + offset - width / 2.0, 0.0), (a + offset + width / 2.0, b)], style)
                 }))
                 .map_err(err)?;
-            if !name.is_empty() {
-                a.label(name).legend(move |(x, y)| Rectangle::new([(x, y - 6), (x + 20, y + 6)], style));
-            }
         }
         Layer::ErrorBars { x, y, lo, hi, colour, .. } => {
             let style = rgb(*colour).stroke_width(2);
@@ -116,32 +102,81 @@ fn draw_layer<DB: DrawingBackend>(chart: &mut Chart2d<DB>, layer: &Layer, ys: (f
                 .draw_series((0..x.len()).map(|i| ErrorBar::new_vertical(x[i], lo[i], y[i], hi[i], style, 12)))
                 .map_err(err)?;
             chart.draw_series(LineSeries::new(x.iter().zip(y).map(|(&a, &b)| (a, b)), style)).map_err(err)?;
-            let a = chart
+            chart
                 .draw_series(x.iter().zip(y).map(|(&a, &b)| Circle::new((a, b), 5, rgb(*colour).filled())))
                 .map_err(err)?;
-            if !name.is_empty() {
-                a.label(name).legend(move |(x, y)| Circle::new((x + 10, y), 5, style.filled()));
-            }
         }
         Layer::VLine { x, colour, .. } => {
             let style = rgb(*colour).stroke_width(3);
-            let a =
-                chart.draw_series(DashedLineSeries::new(vec![(*x, ys.0), (*x, ys.1)], 10, 6, style)).map_err(err)?;
-            if !name.is_empty() {
-                a.label(name).legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], style));
-            }
+            chart.draw_series(DashedLineSeries::new(vec![(*x, ys.0), (*x, ys.1)], 10, 6, style)).map_err(err)?;
         }
         Layer::HLine { y, colour, .. } => {
             let style = rgb(*colour).stroke_width(3);
-            let a =
-                chart.draw_series(DashedLineSeries::new(vec![(xs.0, *y), (xs.1, *y)], 10, 6, style)).map_err(err)?;
-            if !name.is_empty() {
-                a.label(name).legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], style));
-            }
+            chart.draw_series(DashedLineSeries::new(vec![(xs.0, *y), (xs.1, *y)], 10, 6, style)).map_err(err)?;
         }
     }
-
     Ok(())
+}
+
+/// Width of the legend strip right of a panel, in pixels.
+const LEGEND_WIDTH: i32 = 250;
+
+/// The legend in its own strip: a glyph and the label (wrapped to two lines
+/// when long) per labelled layer, top down from `top`.
+fn legend<DB: DrawingBackend>(key: &DrawingArea<DB, Shift>, layers: &[&Layer], top: i32) -> Fallible {
+    let err = |e: DrawingAreaErrorKind<DB::ErrorType>| e.to_string();
+    let font = label_font();
+    let mut y = top;
+    for layer in layers {
+        let lines = wrap(label(layer), 26);
+        let mid = y + 8;
+        let glyph = |c: &Colour| rgb(*c);
+        match layer {
+            Layer::Band { colour, opacity, .. } => {
+                key.draw(&Rectangle::new([(8, mid - 7), (34, mid + 7)], glyph(colour).mix(*opacity).filled()))
+            }
+            Layer::Bars { colour, .. } => {
+                key.draw(&Rectangle::new([(8, mid - 7), (34, mid + 7)], glyph(colour).filled()))
+            }
+            Layer::ErrorBars { colour, .. } => key.draw(&Circle::new((21, mid), 5, glyph(colour).filled())),
+            Layer::Line { colour, width, dashed: false, markers, .. } => {
+                key.draw(&PathElement::new(vec![(8, mid), (34, mid)], glyph(colour).stroke_width(*width)))
+                    .map_err(err)?;
+                if *markers { key.draw(&Circle::new((21, mid), 4, glyph(colour).filled())) } else { Ok(()) }
+            }
+            Layer::Line { colour, width, .. } => {
+                key.draw(&PathElement::new(vec![(8, mid), (17, mid)], glyph(colour).stroke_width(*width)))
+                    .map_err(err)?;
+                key.draw(&PathElement::new(vec![(25, mid), (34, mid)], glyph(colour).stroke_width(*width)))
+            }
+            Layer::VLine { colour, .. } | Layer::HLine { colour, .. } => {
+                key.draw(&PathElement::new(vec![(8, mid), (17, mid)], glyph(colour).stroke_width(3))).map_err(err)?;
+                key.draw(&PathElement::new(vec![(25, mid), (34, mid)], glyph(colour).stroke_width(3)))
+            }
+        }
+        .map_err(err)?;
+        for line in &lines {
+            key.draw_text(line, &font, (42, y)).map_err(err)?;
+            y += 18;
+        }
+        y += 8;
+    }
+    Ok(())
+}
+
+/// Splits text into lines of at most `width` characters at spaces.
+fn wrap(text: &str, width: usize) -> Vec<String> {
+    let mut lines: Vec<String> = Vec::new();
+    for word in text.split(' ') {
+        match lines.last_mut() {
+            Some(l) if l.chars().count() + 1 + word.chars().count() <= width => {
+                l.push(' ');
+                l.push_str(word);
+            }
+            _ => lines.push(word.to_string()),
+        }
+    }
+    lines
 }
 
 fn label(l: &Layer) -> &str {
@@ -204,7 +239,7 @@ fn y_range(p: &XyPanel) -> (f64, f64) {
     let span = if hi > lo { hi - lo } else { lo.abs().max(1e-3) };
     let pad = 0.06 * span;
     let bottom = if p.y_from_zero && lo >= 0.0 { 0.0 } else { lo - pad };
-    (bottom, hi + pad + if p.layers.iter().any(|l| !label(l).is_empty()) { 0.25 * span } else { 0.0 })
+    (bottom, hi + pad)
 }
 
 fn min_max(v: &[f64]) -> Option<(f64, f64)> {
@@ -215,7 +250,13 @@ fn min_max(v: &[f64]) -> Option<(f64, f64)> {
 
 #[cfg(test)]
 mod tests {
-    use super::number;
+    use super::{number, wrap};
+
+    #[test]
+    fn legend_labels_wrap_at_spaces() {
+        assert_eq!(wrap("true best horizon (7 months)", 20), ["true best horizon", "(7 months)"]);
+        assert_eq!(wrap("short", 20), ["short"]);
+    }
 
     #[test]
     fn tick_labels_use_the_step_precision() {

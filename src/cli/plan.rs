@@ -73,11 +73,18 @@ pub fn run(a: &PlanArgs) -> Result<(), Failure> {
     let bar = progress::bar(s.paths, a.study.quiet, "plan");
     let result = plan::run(&setup, &portfolio, &histories, a.target, threads, &|d| bar.set_position(d as u64));
     bar.finish_and_clear();
-    let files = [("plan.json", report::plan_json(s, &result)), ("plan.csv", report::plan_csv(&result))];
+    let mut files =
+        vec![("plan.json".to_string(), report::plan_json(s, &result)), ("plan.csv".into(), report::plan_csv(&result))];
+    let charts = super::run::charts(a.study.no_charts, || report::plan_charts(s, &result, &a.target))?;
+    files.extend(charts.files);
+    files.push((
+        "report.html".into(),
+        report::html::render(&report::html::plan_page(s, &result, &a.target, charts.inline)),
+    ));
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::plan_terminal(s, &result);
-        text.push_str(&format!("\nOutputs: {} (plan.json, plan.csv)\n", out_dir.display()));
+        text.push_str(&format!("\nOutputs: {} (plan.json, plan.csv, report.html and charts)\n", out_dir.display()));
         print(&text)?;
     }
     Ok(())

@@ -1,9 +1,12 @@
 //! Which charts each command draws, built from its aggregated results and
 //! rendered once, after the simulation, as SVG and PNG.
 
-mod parts;
+pub(crate) mod parts;
+mod plan;
 mod study;
 
+pub use parts::trim;
+pub use plan::plan_charts;
 pub use study::{regret_bin_names, regret_shares, study_charts};
 
 use crate::chart::{Chart, ChartError};

@@ -80,3 +80,9 @@ pub fn share_bars(counts: &[u64], colour: Colour, label: &str) -> Layer {
         label: label.into(),
     }
 }
+
+/// A number with at most one decimal and no trailing zeros: 2.5, 10.
+pub fn trim(x: f64) -> String {
+    let s = format!("{x:.1}");
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
+}

@@ -1,8 +1,8 @@
 //! The charts of a study (`run`, `demo`): fans of the measured curves, the
 //! chosen horizon per rule, the regret distribution and net IR by holding length.
 
-use super::parts::{fan, rule_colour, rule_title, share_bars};
-use crate::chart::{Chart, Corner, Layer, PALETTE, Panel, XyPanel};
+use super::parts::{fan, rule_colour, rule_title, share_bars, trim};
+use crate::chart::{Chart, Layer, PALETTE, Panel, XyPanel};
 use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
 use crate::report::period_word;
@@ -21,11 +21,6 @@ pub fn regret_bin_names() -> Vec<String> {
     }
     names.push(format!("> {}%", trim(lo * 100.0)));
     names
-}
-
-fn trim(x: f64) -> String {
-    let s = format!("{x:.1}");
-    s.trim_end_matches('0').trim_end_matches('.').to_string()
 }
 
 /// Share of histories in each regret bin, from how often each choice was made
@@ -176,7 +171,6 @@ fn net_ir_chart(portfolio: &PortfolioTruth, study: &StudyResult, unit: &str) -> 
             x_label: format!("holding length ({unit}s)"),
             y_label: "annualised net IR".into(),
             layers,
-            legend: Corner::UpperRight,
             ..XyPanel::default()
         })
     };

@@ -5,8 +5,10 @@
 //! shows in the command's JSON document (`data-json`) and that value in full
 //! (`data-value`), so a test can check the two agree.
 
+mod plan;
 mod study;
 
+pub use plan::plan_page;
 pub use study::study_page;
 
 use super::summary::CAUTION;
@@ -116,7 +118,11 @@ pub fn render(page: &Page) -> Vec<u8> {
         esc(&page.title),
         env!("CARGO_PKG_VERSION")
     );
-    let _ = write!(h, "<section id=\"summary\">\n<h2>Summary</h2>\n<p class=\"lead\">{}</p>\n</section>\n", page.summary.join(" "));
+    let _ = write!(
+        h,
+        "<section id=\"summary\">\n<h2>Summary</h2>\n<p class=\"lead\">{}</p>\n</section>\n",
+        page.summary.join(" ")
+    );
     h.push_str("<section id=\"charts\">\n<h2>Charts</h2>\n");
     if page.charts.is_empty() {
         h.push_str("<p class=\"muted\">Charts were not drawn (<code>--no-charts</code>).</p>\n");
@@ -138,7 +144,8 @@ pub fn render(page: &Page) -> Vec<u8> {
     h.push_str(&table(&["parameter".into(), "value".into()], &rows));
     h.push_str("</section>\n<section id=\"mc-error\">\n<h2>Monte Carlo error</h2>\n");
     let _ = writeln!(h, "<p>{}</p>", page.errors_note);
-    let rows: Vec<Vec<String>> = page.errors.iter().map(|r| vec![esc(&r.what), r.value.clone(), r.se.clone()]).collect();
+    let rows: Vec<Vec<String>> =
+        page.errors.iter().map(|r| vec![esc(&r.what), r.value.clone(), r.se.clone()]).collect();
     h.push_str(&table(&["figure".into(), "estimate".into(), "Monte Carlo standard error".into()], &rows));
     h.push_str("</section>\n<section id=\"methods\">\n<h2>Methods and sources</h2>\n<ul>\n");
     for (what, how) in &page.methods {

@@ -45,7 +45,10 @@ pub fn study_methods() -> Vec<(String, String)> {
              error sqrt(p(1 - p)/paths); means carry sd/sqrt(paths). Bands are quantiles over histories (Hyndman and \
              Fan, 1996, type 7).",
         ),
-        ("Charts", "Colours from the Okabe and Ito (2008) palette, distinguishable under common colour-vision deficiencies."),
+        (
+            "Charts",
+            "Colours from the Okabe and Ito (2008) palette, distinguishable under common colour-vision deficiencies.",
+        ),
     ]
     .into_iter()
     .map(|(a, b)| (a.to_string(), b.to_string()))
@@ -158,7 +161,11 @@ pub fn study_page(
         ),
     ];
     for rule in [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr] {
-        errors.extend(rule_error_rows(rule_name(rule), study.rules.get(rule), &format!("/study/rules/{}", rule.name())));
+        errors.extend(rule_error_rows(
+            rule_name(rule),
+            study.rules.get(rule),
+            &format!("/study/rules/{}", rule.name()),
+        ));
     }
     for (i, row) in study.cost_sweep.iter().enumerate() {
         errors.extend(rule_error_rows(
