@@ -83,16 +83,32 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
             if !a.no_study {
                 result.calibrated_study = Some(calibrated_study(scenario, &a.study)?);
             }
-            files.push(("calibrated.toml", text.into_bytes()));
+            files.push(("calibrated.toml".to_string(), text.into_bytes()));
         }
         Err(e) => result.warnings.push(format!("no calibrated scenario: {e}")),
     }
-    files.push(("measure.json", report::measure_json(&result)));
-    files.push(("measure_lags.csv", report::measure_csv(&result)));
+    files.push(("measure.json".into(), report::measure_json(&result)));
+    files.push(("measure_lags.csv".into(), report::measure_csv(&result)));
+    let charts = super::run::charts(a.study.no_charts, || report::measure_charts(&result))?;
+    files.extend(charts.files);
+    let settings = serde_json::json!({
+        "panel": a.panel.display().to_string(),
+        "columns": {"date": a.date_column, "asset": a.asset_column, "forecast": a.forecast_column, "return": a.return_column},
+        "return_timing": result.return_timing,
+        "horizons": l,
+        "min_assets": a.min_assets,
+        "bootstrap_resamples": a.bootstrap,
+        "bootstrap_mean_block_length": result.bootstrap.mean_block_length,
+        "seed": seed,
+    });
+    files.push((
+        "report.html".into(),
+        report::html::render(&report::html::measure_page(&result, settings, charts.inline)),
+    ));
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::measure_terminal(&result);
-        let names: Vec<&str> = files.iter().map(|(n, _)| *n).collect();
+        let names: Vec<&str> = files.iter().map(|(n, _)| n.as_str()).filter(|n| !n.ends_with(".svg")).collect();
         text.push_str(&format!("\nOutputs: {} ({})\n", out_dir.display(), names.join(", ")));
         print(&text)?;
     }
@@ -150,14 +166,16 @@ pub fn measure(
     };
     let counts = BootCounts { peak: tally(0), formula: tally(1), fitted: tally(2) };
     let share = |c: &[u64], n: usize| c[n - 1] as f64 / boot.0 as f64;
+    let shares = [
+        share(&counts.peak, choices.horizon[0]),
+        share(&counts.formula, choices.horizon[1]),
+        share(&counts.fitted, choices.horizon[2]),
+    ];
     let bootstrap = Bootstrap {
         replicates: boot.0,
         mean_block_length: block,
-        share_at_estimate: [
-            share(&counts.peak, choices.horizon[0]),
-            share(&counts.formula, choices.horizon[1]),
-            share(&counts.fitted, choices.horizon[2]),
-        ],
+        share_at_estimate: shares,
+        share_at_estimate_se: shares.map(|p| (p * (1.0 - p) / boot.0 as f64).sqrt()),
         range_90: [range(0), range(1), range(2)],
         choice_counts: counts,
     };

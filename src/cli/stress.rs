@@ -32,11 +32,18 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
     let result = stress::run(&scenario, threads(&a.study), &|d| bar.set_position(d as u64))
         .map_err(|(name, e)| Failure::input(format!("{origin}: curve `{name}`: {e}")))?;
     bar.finish_and_clear();
-    let files = [("stress.json", report::stress_json(&scenario, &result)), ("stress.csv", report::stress_csv(&result))];
+    let mut files = vec![
+        ("stress.json".to_string(), report::stress_json(&scenario, &result)),
+        ("stress.csv".into(), report::stress_csv(&result)),
+    ];
+    let charts = super::run::charts(a.study.no_charts, || report::stress_charts(&scenario, &result))?;
+    files.extend(charts.files);
+    let page = report::html::stress_page(&scenario, &result, charts.inline);
+    files.push(("report.html".into(), report::html::render(&page)));
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::stress_terminal(&scenario, &result);
-        text.push_str(&format!("\nOutputs: {} (stress.json, stress.csv)\n", out_dir.display()));
+        text.push_str(&format!("\nOutputs: {} (stress.json, stress.csv, report.html and charts)\n", out_dir.display()));
         print(&text)?;
     }
     Ok(())

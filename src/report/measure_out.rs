@@ -46,6 +46,8 @@ pub struct Bootstrap {
     pub choice_counts: BootCounts,
     /// Per rule, the share of resamples that chose the full-sample estimate.
     pub share_at_estimate: [f64; 3],
+    /// Monte Carlo errors of those shares, `sqrt(p(1 − p)/replicates)`.
+    pub share_at_estimate_se: [f64; 3],
     /// Per rule, the 5 % and 95 % quantiles of the chosen horizon.
     pub range_90: [[f64; 2]; 3],
 }

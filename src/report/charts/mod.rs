@@ -1,12 +1,16 @@
 //! Which charts each command draws, built from its aggregated results and
 //! rendered once, after the simulation, as SVG and PNG.
 
+mod measure;
 pub(crate) mod parts;
 mod plan;
+mod stress;
 mod study;
 
+pub use measure::measure_charts;
 pub use parts::trim;
 pub use plan::plan_charts;
+pub use stress::stress_charts;
 pub use study::{regret_bin_names, regret_shares, study_charts};
 
 use crate::chart::{Chart, ChartError};

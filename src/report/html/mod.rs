@@ -5,10 +5,14 @@
 //! shows in the command's JSON document (`data-json`) and that value in full
 //! (`data-value`), so a test can check the two agree.
 
+mod measure;
 mod plan;
+mod stress;
 mod study;
 
+pub use measure::measure_page;
 pub use plan::plan_page;
+pub use stress::stress_page;
 pub use study::study_page;
 
 use super::summary::CAUTION;

@@ -1,0 +1,130 @@
+//! The report of `measure`; figures point into `measure.json`.
+
+use super::study::rule_name;
+use super::{ErrRow, Fmt, Page, fig, int};
+use crate::measure::rules::Rule;
+use crate::report::MeasureResult;
+
+/// What the fitted family's shape parameter is.
+fn shape_words(family: &str) -> &'static str {
+    match family {
+        "exponential" => "half-life in periods",
+        "power" => "exponent",
+        "linear" => "lag where the IC reaches zero",
+        "hump" => "lag of the peak",
+        _ => "shape parameter",
+    }
+}
+
+/// The report page of a measured panel. `parameters` are the command's settings.
+pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Vec<(String, String, String)>) -> Page {
+    let b = &m.best_horizon;
+    let bs = &m.bootstrap;
+    let se_or = |p: &str, v: Option<f64>| v.map_or_else(|| "n/a".to_string(), |v| fig(p, v, Fmt::Num(4)));
+    let mut summary = vec![
+        format!(
+            "lagfold measured {} dates and {} assets of your panel with the same estimators its simulations use. \
+             The forecast's average correlation with the next period's return (the lag-1 IC) is {}, with a \
+             standard error of {}.",
+            int("/dates_used", m.dates_used),
+            int("/assets", m.assets),
+            fig("/lagged_ic/mean/0", m.lagged_ic.mean[0], Fmt::Num(4)),
+            se_or("/lagged_ic/se/0", m.lagged_ic.se[0]),
+        ),
+        format!(
+            "The measured horizon IC peaks at {} periods, and a {} decay curve fitted to the lagged ICs (its {} is \
+             {}) puts the best horizon at {} periods.",
+            int("/best_horizon/peak", b.peak),
+            m.fitted_family,
+            shape_words(&m.fitted_family),
+            fig("/fitted_shape", m.fitted_shape, Fmt::Num(2)),
+            int("/best_horizon/fitted", b.fitted),
+        ),
+        format!(
+            "Resampling the dates, the peak rule picks the same {} periods in only {} of resamples, and 90% of its \
+             picks lie between {} and {} periods: that spread is how uncertain the best horizon is.",
+            int("/best_horizon/peak", b.peak),
+            fig("/bootstrap/share_at_estimate/0", bs.share_at_estimate[0], Fmt::Pct(0)),
+            fig("/bootstrap/range_90/0/0", bs.range_90[0][0], Fmt::Num(0)),
+            fig("/bootstrap/range_90/0/1", bs.range_90[0][1], Fmt::Num(0)),
+        ),
+    ];
+    if let Some(c) = &m.calibrated_study {
+        summary.push(format!(
+            "In {} simulated histories built to resemble yours (calibrated.toml), the peak rule landed within one \
+             period of the true best horizon in {}.",
+            int("/calibrated_study/paths", c.paths),
+            fig("/calibrated_study/near_hit_rate/0", c.near_hit_rate[0], Fmt::Pct(1)),
+        ));
+    }
+    let mut errors = vec![
+        ErrRow::new(
+            "lag-1 IC (sampling error, Newey–West)",
+            fig("/lagged_ic/mean/0", m.lagged_ic.mean[0], Fmt::Num(4)),
+            se_or("/lagged_ic/se/0", m.lagged_ic.se[0]),
+        ),
+        ErrRow::new(
+            format!("horizon IC at the measured peak ({})", b.peak),
+            fig(&format!("/horizon_ic/mean/{}", b.peak - 1), m.horizon_ic.mean[b.peak - 1], Fmt::Num(4)),
+            se_or(&format!("/horizon_ic/se/{}", b.peak - 1), m.horizon_ic.se[b.peak - 1]),
+        ),
+    ];
+    for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
+        errors.push(ErrRow::new(
+            format!("{}: share of resamples choosing the full-data horizon", rule_name(rule)),
+            fig(&format!("/bootstrap/share_at_estimate/{i}"), bs.share_at_estimate[i], Fmt::Pct(1)),
+            fig(&format!("/bootstrap/share_at_estimate_se/{i}"), bs.share_at_estimate_se[i], Fmt::Pct(2)),
+        ));
+    }
+    if let Some(c) = &m.calibrated_study {
+        for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
+            errors.push(ErrRow::new(
+                format!("calibrated study, {}: within one period", rule_name(rule)),
+                fig(&format!("/calibrated_study/near_hit_rate/{i}"), c.near_hit_rate[i], Fmt::Pct(1)),
+                fig(&format!("/calibrated_study/near_hit_rate_se/{i}"), c.near_hit_rate_se[i], Fmt::Pct(2)),
+            ));
+        }
+    }
+    let methods = vec![
+        (
+            "Estimators".into(),
+            "Per-date Pearson and Spearman correlations of the forecast with the return k periods later (lagged IC) \
+             and with the return summed over n periods (horizon IC), averaged over dates; standard errors by Newey \
+             and West (1987) with at least 2n lags, more when Andrews' (1991) plug-in bandwidth asks."
+                .into(),
+        ),
+        (
+            "Rules".into(),
+            "peak: the horizon with the largest measured horizon IC; formula: the peak of the sum of measured lagged \
+             ICs over sqrt(n) (Qian, Hua and Sorensen, 2007); fitted: the optimum of an exponential, power, linear or \
+             hump curve fitted to the lagged ICs by weighted least squares, chosen by Akaike's (1974) criterion."
+                .into(),
+        ),
+        (
+            "Bootstrap".into(),
+            "The stationary bootstrap of Politis and Romano (1994) resamples blocks of dates with random lengths, \
+             keeping the serial dependence of overlapping horizon returns, and repeats every rule on each resample."
+                .into(),
+        ),
+        (
+            "Calibrated study".into(),
+            "calibrated.toml carries your breadth, history, forecast autocorrelation, IC volatility and the fitted \
+             decay into a scenario, and the study on it asks how often a history like yours picks the true best \
+             horizon."
+                .into(),
+        ),
+    ];
+    Page {
+        title: format!("lagfold measure: {}", m.file),
+        summary,
+        charts,
+        tables: Vec::new(),
+        parameters,
+        errors,
+        errors_note: "Figures measured on your data carry sampling error (the Newey–West standard errors); the \
+                      bootstrap shares and the calibrated study are Monte Carlo averages with binomial standard \
+                      errors."
+            .into(),
+        methods,
+    }
+}
