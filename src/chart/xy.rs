@@ -54,7 +54,7 @@ pub fn draw<DB: DrawingBackend>(whole: &DrawingArea<DB, Shift>, p: &XyPanel) -> 
         .draw()
         .map_err(|e| e.to_string())?;
     for layer in &p.layers {
-        draw_layer(&mut chart, layer, (y0, y1), (x0, x1))?;
+        draw_layer(&mut chart, layer, (y0, y1), (x0, x1), cats.is_empty())?;
     }
     if let Some(key) = key {
         legend(&key, &labelled, if p.heading.is_empty() { 20 } else { 44 })?;
@@ -65,7 +65,14 @@ pub fn draw<DB: DrawingBackend>(whole: &DrawingArea<DB, Shift>, p: &XyPanel) -> 
 type Chart2d<'a, DB> =
     ChartContext<'a, DB, Cartesian2d<plotters::coord::types::RangedCoordf64, plotters::coord::types::RangedCoordf64>>;
 
-fn draw_layer<DB: DrawingBackend>(chart: &mut Chart2d<DB>, layer: &Layer, ys: (f64, f64), xs: (f64, f64)) -> Fallible {
+/// Draws one layer; `join` links error-bar points by a line (off for categories).
+fn draw_layer<DB: DrawingBackend>(
+    chart: &mut Chart2d<DB>,
+    layer: &Layer,
+    ys: (f64, f64),
+    xs: (f64, f64),
+    join: bool,
+) -> Fallible {
     let err = |e: DrawingAreaErrorKind<DB::ErrorType>| e.to_string();
     match layer {
         Layer::Band { x, lo, hi, colour, opacity, .. } => {
@@ -101,7 +108,9 @@ fn draw_layer<DB: DrawingBackend>(chart: &mut Chart2d<DB>, layer: &Layer, ys: (f
             chart
                 .draw_series((0..x.len()).map(|i| ErrorBar::new_vertical(x[i], lo[i], y[i], hi[i], style, 12)))
                 .map_err(err)?;
-            chart.draw_series(LineSeries::new(x.iter().zip(y).map(|(&a, &b)| (a, b)), style)).map_err(err)?;
+            if join {
+                chart.draw_series(LineSeries::new(x.iter().zip(y).map(|(&a, &b)| (a, b)), style)).map_err(err)?;
+            }
             chart
                 .draw_series(x.iter().zip(y).map(|(&a, &b)| Circle::new((a, b), 5, rgb(*colour).filled())))
                 .map_err(err)?;
@@ -254,7 +263,7 @@ mod tests {
 
     #[test]
     fn legend_labels_wrap_at_spaces() {
-        assert_eq!(wrap("true best horizon (7 months)", 20), ["true best horizon", "(7 months)"]);
+        assert_eq!(wrap("true best horizon (7 months)", 18), ["true best horizon", "(7 months)"]);
         assert_eq!(wrap("short", 20), ["short"]);
     }
 

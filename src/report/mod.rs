@@ -13,7 +13,9 @@ mod summary;
 mod sweep;
 mod terminal;
 
-pub use charts::{ChartSet, measure_charts, plan_charts, regret_bin_names, regret_shares, stress_charts, study_charts};
+pub use charts::{
+    ChartSet, measure_charts, plan_charts, regret_bin_names, regret_shares, stress_charts, study_charts, sweep_charts,
+};
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
 pub use measure_out::{
     BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult, measure_csv, measure_json,

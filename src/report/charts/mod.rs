@@ -9,7 +9,7 @@ mod study;
 
 pub use measure::measure_charts;
 pub use parts::trim;
-pub use plan::plan_charts;
+pub use plan::{plan_charts, sweep_charts};
 pub use stress::stress_charts;
 pub use study::{regret_bin_names, regret_shares, study_charts};
 

@@ -23,16 +23,16 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
     let se_or = |p: &str, v: Option<f64>| v.map_or_else(|| "n/a".to_string(), |v| fig(p, v, Fmt::Num(4)));
     let mut summary = vec![
         format!(
-            "lagfold measured {} dates and {} assets of your panel with the same estimators its simulations use. \
-             The forecast's average correlation with the next period's return (the lag-1 IC) is {}, with a \
-             standard error of {}.",
+            "lagfold measured {} dates and {} assets of your panel with the estimators its simulations use: the \
+             forecast's average correlation with the next period's return (the lag-1 IC) is {}, with a standard \
+             error of {}.",
             int("/dates_used", m.dates_used),
             int("/assets", m.assets),
             fig("/lagged_ic/mean/0", m.lagged_ic.mean[0], Fmt::Num(4)),
             se_or("/lagged_ic/se/0", m.lagged_ic.se[0]),
         ),
         format!(
-            "The measured horizon IC peaks at {} periods, and a {} decay curve fitted to the lagged ICs (its {} is \
+            "The measured horizon IC peaks at {} periods, and the decay curve fitted to the lagged ICs ({}, {} \
              {}) puts the best horizon at {} periods.",
             int("/best_horizon/peak", b.peak),
             m.fitted_family,

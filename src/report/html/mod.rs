@@ -9,11 +9,13 @@ mod measure;
 mod plan;
 mod stress;
 mod study;
+mod sweep;
 
 pub use measure::measure_page;
 pub use plan::plan_page;
 pub use stress::stress_page;
 pub use study::study_page;
+pub use sweep::sweep_page;
 
 use super::summary::CAUTION;
 use std::fmt::Write;
