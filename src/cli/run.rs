@@ -143,22 +143,7 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
         vec![("sweep.json".to_string(), report::sweep_json(&rows)), ("sweep.csv".into(), report::sweep_csv(&rows))];
     let charts = charts(a.no_charts, || report::sweep_charts(&rows))?;
     files.extend(charts.files);
-    let mut swept = serde_json::Map::new();
-    for p in points {
-        for (k, v) in &p.at {
-            let e = swept.entry(k.clone()).or_insert_with(|| serde_json::Value::Array(Vec::new()));
-            if let serde_json::Value::Array(vals) = e {
-                if !vals.contains(&serde_json::Value::String(v.clone())) {
-                    vals.push(serde_json::Value::String(v.clone()));
-                }
-            }
-        }
-    }
-    let parameters = serde_json::json!({
-        "grid_points": points.len(),
-        "swept": swept,
-        "first_point": serde_json::to_value(&points[0].scenario).unwrap_or_default(),
-    });
+    let parameters = report::html::sweep_parameters(points);
     let page = report::html::sweep_page(name, &rows, parameters, charts.inline);
     files.push(("report.html".into(), report::html::render(&page)));
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;

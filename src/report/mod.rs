@@ -1,7 +1,7 @@
 //! Stage 5: what users read. Exporters are pure functions from results to
 //! bytes; [`write_atomically`] puts them in place only once all are written.
 
-mod charts;
+pub(crate) mod charts;
 mod csv_tables;
 pub mod html;
 mod measure_out;

@@ -86,3 +86,13 @@ pub fn trim(x: f64) -> String {
     let s = format!("{x:.1}");
     s.trim_end_matches('0').trim_end_matches('.').to_string()
 }
+
+/// "1 month", "7 months".
+pub fn plural(n: usize, unit: &str) -> String {
+    format!("{n} {}", units(n, unit))
+}
+
+/// The unit's word for `n` of them: "month" for 1, "months" otherwise.
+pub fn units(n: usize, unit: &str) -> String {
+    if n == 1 { unit.to_string() } else { format!("{unit}s") }
+}

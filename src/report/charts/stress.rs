@@ -1,7 +1,7 @@
 //! The charts of `stress`: every curve's truth, and the regret matrices as
 //! heatmaps with the values printed in the cells.
 
-use super::parts::one_based;
+use super::parts::{one_based, plural};
 use crate::chart::{Chart, Colour, HeatPanel, Layer, PALETTE, Panel, XyPanel};
 use crate::report::period_word;
 use crate::scenario::Scenario;
@@ -20,7 +20,12 @@ pub fn stress_charts(scenario: &Scenario, stress: &StressResult) -> Vec<Chart> {
         Panel::Heat(HeatPanel {
             row_title: format!("{what} chosen under"),
             col_title: "curve that is true".into(),
-            rows: stress.curves.iter().zip(&m.chosen).map(|(c, n)| format!("{} ({n} {unit}s)", c.name)).collect(),
+            rows: stress
+                .curves
+                .iter()
+                .zip(&m.chosen)
+                .map(|(c, n)| format!("{} ({})", c.name, plural(*n, unit)))
+                .collect(),
             cols: stress.curves.iter().map(|c| c.name.clone()).collect(),
             values: m.regret_rel.clone(),
             text: m.regret_rel.iter().map(|row| row.iter().map(|r| format!("{:.1}%", 100.0 * r)).collect()).collect(),

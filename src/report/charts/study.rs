@@ -1,7 +1,7 @@
 //! The charts of a study (`run`, `demo`): fans of the measured curves, the
 //! chosen horizon per rule, the regret distribution and net IR by holding length.
 
-use super::parts::{fan, rule_colour, rule_title, share_bars, trim};
+use super::parts::{fan, plural, rule_colour, rule_title, share_bars, trim};
 use crate::chart::{Chart, Layer, PALETTE, Panel, XyPanel};
 use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
@@ -42,7 +42,7 @@ pub fn regret_shares(counts: &[u64], truth: &[f64], best: usize) -> Vec<f64> {
 pub fn study_charts(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult) -> Vec<Chart> {
     let (s, t) = (&setup.scenario, &setup.truth);
     let unit = period_word(s.periods_per_year);
-    let best_label = format!("true best horizon ({} {unit}s)", t.best_horizon);
+    let best_label = format!("true best horizon ({})", plural(t.best_horizon, unit));
     let histories = format!("{} simulated histories of {} {unit}s × {} assets", study.paths, s.history, s.assets);
     let fan_panel = |measured: &CurveStats, truth: &[f64], x: &str, y: &str| {
         Panel::Xy(XyPanel {
@@ -58,8 +58,8 @@ pub fn study_charts(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResu
             title: format!("Measured horizon IC in {histories}"),
             caption: format!(
                 "The black line is the true horizon IC; the blue bands show where one history's measurement falls. \
-                 The wider the bands around the dashed line at {} {unit}s, the easier it is to pick the wrong peak.",
-                t.best_horizon
+                 The wider the bands around the dashed line at {}, the easier it is to pick the wrong peak.",
+                plural(t.best_horizon, unit)
             ),
             panels: vec![fan_panel(&study.horizon_ic, &t.horizon_ic, "horizon n", "horizon IC")],
             panel_height: 520,
@@ -165,7 +165,7 @@ fn regret_chart(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult) 
 fn net_ir_chart(portfolio: &PortfolioTruth, study: &StudyResult, unit: &str) -> Chart {
     let lin = &portfolio.linear;
     let panel = |cost: f64, truth: &[f64], measured: &CurveStats, best: usize| {
-        let layers = fan(measured, truth, best, format!("true best holding ({best} {unit}s)"));
+        let layers = fan(measured, truth, best, format!("true best holding ({})", plural(best, unit)));
         Panel::Xy(XyPanel {
             heading: format!("one-way cost {cost} bps"),
             x_label: format!("holding length ({unit}s)"),

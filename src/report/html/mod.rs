@@ -15,7 +15,7 @@ pub use measure::measure_page;
 pub use plan::plan_page;
 pub use stress::stress_page;
 pub use study::study_page;
-pub use sweep::sweep_page;
+pub use sweep::{sweep_page, sweep_parameters};
 
 use super::summary::CAUTION;
 use std::fmt::Write;
@@ -27,6 +27,8 @@ pub enum Fmt {
     Pct(usize),
     /// A number with this many decimals.
     Num(usize),
+    /// A number as given (an input such as a cost in basis points).
+    Plain,
 }
 
 /// A figure in the page: its text, tagged with where it lives in the JSON
@@ -35,6 +37,7 @@ pub fn fig(pointer: &str, value: f64, f: Fmt) -> String {
     let text = match f {
         Fmt::Pct(d) => format!("{:.d$}%", 100.0 * value),
         Fmt::Num(d) => format!("{value:.d$}"),
+        Fmt::Plain => format!("{value}"),
     };
     let scale = if matches!(f, Fmt::Pct(_)) { "100" } else { "1" };
     format!(r#"<span class="fig" data-json="{pointer}" data-value="{value}" data-scale="{scale}">{text}</span>"#)
@@ -181,7 +184,7 @@ fn table(header: &[String], rows: &[Vec<String>]) -> String {
     for r in rows {
         h.push_str("<tr>");
         for c in r {
-            let numeric = c.starts_with("<span class=\"fig\"") || c.parse::<f64>().is_ok();
+            let numeric = c.starts_with("<span class=\"fig\"");
             let _ = write!(h, "<td{}>{c}</td>", if numeric { " class=\"n\"" } else { "" });
         }
         h.push_str("</tr>\n");

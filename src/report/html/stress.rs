@@ -2,6 +2,7 @@
 
 use super::study::study_methods;
 use super::{ErrRow, Fmt, Page, fig, int};
+use crate::report::charts::units;
 use crate::report::period_word;
 use crate::scenario::Scenario;
 use crate::stress::{RegretMatrix, StressResult};
@@ -19,29 +20,33 @@ pub fn stress_page(scenario: &Scenario, stress: &StressResult, charts: Vec<(Stri
     let (nj, nw) = worst(n);
     let summary = vec![
         format!(
-            "lagfold took the horizon that is best under the assumed decay curve, {} {unit}s, and computed what it \
+            "lagfold took the horizon that is best under the assumed decay curve, {} {}, and computed what it \
              gives up if one of {} other curves is true instead; there is no estimation noise here, only the \
              question of a wrong assumption.",
             int("/horizon/chosen/0", h.chosen[0]),
+            units(h.chosen[0], unit),
             stress.curves.len() - 1
         ),
         format!(
             "In the worst case, when the curve named “{}” is true, it gives up {} of the best horizon IC; the \
-             horizon with the smallest worst case is {} {unit}s, which never gives up more than {}.",
+             horizon with the smallest worst case is {} {}, which never gives up more than {}.",
             stress.curves[hj].name,
             fig(&format!("/horizon/regret_rel/0/{hj}"), hw, Fmt::Pct(1)),
             int("/horizon/minimax", h.minimax),
+            units(h.minimax, unit),
             fig("/horizon/minimax_worst_rel", h.minimax_worst_rel, Fmt::Pct(1)),
         ),
         format!(
-            "For holding lengths after one-way costs of {} bps, holding {} {unit}s as assumed gives up at most {} \
-             of the best net information ratio (when “{}” is true); the safest holding length is {} {unit}s (at \
+            "For holding lengths after one-way costs of {} bps, holding {} {} as assumed gives up at most {} \
+             of the best net information ratio (when “{}” is true); the safest holding length is {} {} (at \
              most {}).",
-            fig("/cost_bps", stress.cost_bps, Fmt::Num(1)),
+            fig("/cost_bps", stress.cost_bps, Fmt::Plain),
             int("/holding/chosen/0", n.chosen[0]),
+            units(n.chosen[0], unit),
             fig(&format!("/holding/regret_rel/0/{nj}"), nw, Fmt::Pct(1)),
             stress.curves[nj].name,
             int("/holding/minimax", n.minimax),
+            units(n.minimax, unit),
             fig("/holding/minimax_worst_rel", n.minimax_worst_rel, Fmt::Pct(1)),
         ),
     ];

@@ -3,6 +3,7 @@
 use super::{ErrRow, Fmt, Page, fig, int};
 use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
+use crate::report::charts::units;
 use crate::report::period_word;
 use crate::study::{RuleStats, Setup, StudyResult};
 
@@ -119,11 +120,12 @@ pub fn study_page(
     let summary = vec![
         format!(
             "lagfold simulated {} histories of {} {unit}s of a forecast on {} assets whose true best holding horizon \
-             is {} {unit}s, where the true horizon IC is {}.",
+             is {} {}, where the true horizon IC is {}.",
             int("/study/paths", study.paths),
             int("/scenario/history", s.history),
             int("/scenario/assets", s.assets),
             int("/truth/best_horizon", best),
+            units(best, unit),
             fig(&format!("/truth/horizon_ic/{}", best - 1), t.horizon_ic[best - 1], Fmt::Num(4)),
         ),
         format!(
@@ -140,10 +142,11 @@ pub fn study_page(
             fig(&format!("/study/rules/{}/regret_rel_mean", best_rule.name()), br.regret_rel_mean, Fmt::Pct(1)),
         ),
         format!(
-            "After one-way costs of {} bps the best holding length is {} {unit}s with a true net information ratio \
+            "After one-way costs of {} bps the best holding length is {} {} with a true net information ratio \
              of {}; choosing it from a history's own net IR gave up on average {} basis points a year.",
-            fig("/study/cost_bps", study.cost_bps, Fmt::Num(1)),
+            fig("/study/cost_bps", study.cost_bps, Fmt::Plain),
             int("/truth/best_holding", hold),
+            units(hold, unit),
             fig(&format!("/truth/net_ir/{}", hold - 1), lin.net_ir[hold - 1], Fmt::Num(2)),
             fig("/study/rules/net_ir/regret_bps_year_mean", ni.regret_bps_year_mean.unwrap_or(f64::NAN), Fmt::Num(1)),
         ),

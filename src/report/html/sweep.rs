@@ -4,6 +4,27 @@ use super::study::{ERRORS_NOTE, rule_error_rows, rule_name, study_methods};
 use super::{Fmt, Page, Table, esc, fig, int};
 use crate::measure::rules::Rule;
 use crate::report::SweepPoint;
+use crate::scenario::sweep::Point;
+use std::collections::BTreeMap;
+
+/// The sweep's parameters: how many points, the values of every swept
+/// field, and the first point's whole scenario.
+pub fn sweep_parameters(points: &[Point]) -> serde_json::Value {
+    let mut swept: BTreeMap<&str, Vec<&str>> = BTreeMap::new();
+    for p in points {
+        for (k, v) in &p.at {
+            let vals = swept.entry(k).or_default();
+            if !vals.contains(&v.as_str()) {
+                vals.push(v);
+            }
+        }
+    }
+    serde_json::json!({
+        "grid_points": points.len(),
+        "swept": swept,
+        "first_point": serde_json::to_value(&points[0].scenario).unwrap_or_default(),
+    })
+}
 
 /// The report page of a sweep. `parameters` describe the grid and the base scenario.
 pub fn sweep_page(
