@@ -108,8 +108,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::measure_terminal(&result);
-        let names: Vec<&str> = files.iter().map(|(n, _)| n.as_str()).filter(|n| !n.ends_with(".svg")).collect();
-        text.push_str(&format!("\nOutputs: {} ({})\n", out_dir.display(), names.join(", ")));
+        text.push_str(&super::outputs_line(&out_dir, &files));
         print(&text)?;
     }
     Ok(())

@@ -70,6 +70,19 @@ pub(crate) fn print(text: &str) -> Result<(), Failure> {
     }
 }
 
+/// The closing line naming what was written: data files, then how many charts.
+pub(crate) fn outputs_line(dir: &std::path::Path, files: &[(String, Vec<u8>)]) -> String {
+    let data: Vec<&str> =
+        files.iter().map(|(n, _)| n.as_str()).filter(|n| !n.ends_with(".png") && !n.ends_with(".svg")).collect();
+    let charts = files.iter().filter(|(n, _)| n.ends_with(".png")).count();
+    let drawn = match charts {
+        0 => String::new(),
+        1 => "; 1 chart as .png and .svg".to_string(),
+        n => format!("; {n} charts as .png and .svg"),
+    };
+    format!("\nOutputs: {} ({}{drawn})\n", dir.display(), data.join(", "))
+}
+
 /// Parses the arguments, runs the command and returns the exit code.
 pub fn main() -> i32 {
     let cli = Cli::parse();

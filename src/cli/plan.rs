@@ -84,7 +84,7 @@ pub fn run(a: &PlanArgs) -> Result<(), Failure> {
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::plan_terminal(s, &result);
-        text.push_str(&format!("\nOutputs: {} (plan.json, plan.csv, report.html and charts)\n", out_dir.display()));
+        text.push_str(&super::outputs_line(&out_dir, &files));
         print(&text)?;
     }
     Ok(())

@@ -149,7 +149,7 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.quiet {
         let mut text = report::sweep_terminal(&rows);
-        text.push_str(&format!("\nOutputs: {} (sweep.json, sweep.csv, report.html and charts)\n", out_dir.display()));
+        text.push_str(&super::outputs_line(&out_dir, &files));
         print(&text)?;
     }
     Ok(())
@@ -196,8 +196,7 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.quiet {
         let mut text = report::terminal_summary(&setup, &portfolio, &result);
-        let names: Vec<&str> = files.iter().map(|(n, _)| n.as_str()).filter(|n| !n.ends_with(".svg")).collect();
-        text.push_str(&format!("\nOutputs: {} ({})\n", out_dir.display(), names.join(", ")));
+        text.push_str(&super::outputs_line(&out_dir, &files));
         print(&text)?;
     }
     Ok(())

@@ -43,7 +43,7 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
     report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::stress_terminal(&scenario, &result);
-        text.push_str(&format!("\nOutputs: {} (stress.json, stress.csv, report.html and charts)\n", out_dir.display()));
+        text.push_str(&super::outputs_line(&out_dir, &files));
         print(&text)?;
     }
     Ok(())
