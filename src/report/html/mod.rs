@@ -112,7 +112,8 @@ figcaption{font-size:.95rem;color:#333;margin-top:.3rem}\
 table{border-collapse:collapse;margin:.6rem 0;font-size:.92rem;font-variant-numeric:tabular-nums;display:block;overflow-x:auto}\
 th,td{padding:.25rem .6rem;border-bottom:1px solid #ddd;text-align:left;vertical-align:top}td.n{text-align:right}th{background:#f4f4f4}\
 .caution{background:#fff6e5;border-left:4px solid #e69f00;padding:.6rem 1rem}.muted{color:#555;font-size:.9rem}\
-@media print{body{max-width:none;font-size:10pt}h2{break-after:avoid}}";
+@media (max-width:700px){body{padding:.6rem}figure{overflow-x:auto}figure svg{width:680px;max-width:none}}\
+@media print{body{max-width:none;font-size:10pt}h2{break-after:avoid}figure svg{max-height:118mm;width:auto;max-width:100%;margin:0 auto}.lead{border:1px solid #0072b2}}";
 
 /// The whole page.
 pub fn render(page: &Page) -> Vec<u8> {
