@@ -1,7 +1,7 @@
 //! The report of `stress`; figures point into `stress.json`.
 
 use super::study::study_methods;
-use super::{ErrRow, Fmt, Page, fig, int};
+use super::{ErrRow, Fmt, Page, esc, fig, int};
 use crate::report::charts::units;
 use crate::report::period_word;
 use crate::scenario::Scenario;
@@ -30,7 +30,7 @@ pub fn stress_page(scenario: &Scenario, stress: &StressResult, charts: Vec<(Stri
         format!(
             "In the worst case, when the curve named “{}” is true, it gives up {} of the best horizon IC; the \
              horizon with the smallest worst case is {} {}, which never gives up more than {}.",
-            stress.curves[hj].name,
+            esc(&stress.curves[hj].name),
             fig(&format!("/horizon/regret_rel/0/{hj}"), hw, Fmt::Pct(1)),
             int("/horizon/minimax", h.minimax),
             units(h.minimax, unit),
@@ -44,7 +44,7 @@ pub fn stress_page(scenario: &Scenario, stress: &StressResult, charts: Vec<(Stri
             int("/holding/chosen/0", n.chosen[0]),
             units(n.chosen[0], unit),
             fig(&format!("/holding/regret_rel/0/{nj}"), nw, Fmt::Pct(1)),
-            stress.curves[nj].name,
+            esc(&stress.curves[nj].name),
             int("/holding/minimax", n.minimax),
             units(n.minimax, unit),
             fig("/holding/minimax_worst_rel", n.minimax_worst_rel, Fmt::Pct(1)),
