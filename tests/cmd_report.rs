@@ -214,3 +214,20 @@ fn a_sweep_draws_its_grid_and_tabulates_the_points() {
     let page = check_report(&out, "sweep.json", 1);
     assert_eq!(page.select(&sel("#charts table tbody tr")).count(), 2);
 }
+
+#[test]
+fn user_curve_names_are_shown_as_text_not_markup() {
+    let tmp = tempfile::tempdir().unwrap();
+    let file = tmp.path().join("named.toml");
+    let named = format!(
+        "{SMALL}[stress]\nreplace_defaults = true\n[[stress.alternatives]]\nname = \"<b>slow & steady</b>\"\n\
+         decay = {{ family = \"exponential\", ic1 = 0.06, half_life = 12 }}\n"
+    );
+    std::fs::write(&file, named).unwrap();
+    let out = tmp.path().join("s");
+    lagfold().arg("stress").arg(&file).args(["-q", "--out"]).arg(&out).assert().success();
+    let page = check_report(&out, "stress.json", 2);
+    assert_eq!(page.select(&sel("b")).count(), 0, "a name became markup");
+    let lead: String = page.select(&sel("#summary p")).next().unwrap().text().collect();
+    assert!(lead.contains("<b>slow & steady</b>"), "{lead}");
+}
