@@ -41,13 +41,38 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, p: &HeatPanel) ->
     }
     let top_mid = Pos::new(HPos::Center, VPos::Top);
     for (c, name) in p.cols.iter().enumerate() {
-        area.draw_text(name, &font.pos(top_mid), (left + c as i32 * cw + cw / 2, top + nr * ch + 8)).map_err(err)?;
+        let fits = |t: &str| area.estimate_text_size(t, &font).map_or(true, |s| s.0 as i32 <= cw - 8);
+        let mut lines = wrap_to(name, fits);
+        if lines.len() > 2 {
+            lines.truncate(2);
+            lines[1].push('…');
+        }
+        for (k, line) in lines.iter().enumerate() {
+            let at = (left + c as i32 * cw + cw / 2, top + nr * ch + 6 + 16 * k as i32);
+            area.draw_text(line, &font.pos(top_mid), at).map_err(err)?;
+        }
     }
     let axis = axis_font();
-    area.draw_text(&p.col_title, &axis.pos(top_mid), (left + nc * cw / 2, top + nr * ch + 40)).map_err(err)?;
+    area.draw_text(&p.col_title, &axis.pos(top_mid), (left + nc * cw / 2, top + nr * ch + 46)).map_err(err)?;
     let rotated = axis.transform(FontTransform::Rotate270).pos(centre);
     area.draw_text(&p.row_title, &rotated, (18, top + nr * ch / 2)).map_err(err)?;
     Ok(())
+}
+
+/// Greedy wrap at spaces: each line as long as `fits` allows (a single word
+/// that does not fit gets a line of its own).
+fn wrap_to(text: &str, fits: impl Fn(&str) -> bool) -> Vec<String> {
+    let mut lines: Vec<String> = Vec::new();
+    for word in text.split(' ') {
+        match lines.last_mut() {
+            Some(l) if fits(&format!("{l} {word}")) => {
+                l.push(' ');
+                l.push_str(word);
+            }
+            _ => lines.push(word.to_string()),
+        }
+    }
+    lines
 }
 
 /// White at 0 to the palette's blue at 1.
@@ -55,4 +80,17 @@ fn shade(t: f64) -> RGBColor {
     let (r, g, b) = PALETTE.blue;
     let mix = |c: u8| (255.0 + (f64::from(c) - 255.0) * t).round() as u8;
     RGBColor(mix(r), mix(g), mix(b))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::wrap_to;
+
+    #[test]
+    fn names_wrap_at_spaces_to_the_width() {
+        let fits = |t: &str| t.len() <= 8;
+        assert_eq!(wrap_to("long memory", fits), ["long", "memory"]);
+        assert_eq!(wrap_to("hump", fits), ["hump"]);
+        assert_eq!(wrap_to("a b c", fits), ["a b c"]);
+    }
 }
