@@ -120,7 +120,7 @@ pub fn study_page(
     let summary = vec![
         format!(
             "lagfold simulated {} histories of {} {unit}s of a forecast on {} assets whose true best holding horizon \
-             is {} {}, where the true horizon IC is {}.",
+             is {} {}, where the forecast's correlation with the returns that follow (the horizon IC) peaks at {}.",
             int("/study/paths", study.paths),
             int("/scenario/history", s.history),
             int("/scenario/assets", s.assets),
