@@ -193,9 +193,19 @@ fn outputs_are_byte_identical_on_one_and_two_threads() {
             .assert()
             .success();
     }
-    for file in ["summary.json", "curves.csv", "choices.csv", "holding.csv"] {
-        let one = std::fs::read(tmp.path().join("1").join(file)).unwrap();
-        let two = std::fs::read(tmp.path().join("2").join(file)).unwrap();
+    let names = |d: &str| {
+        let mut v: Vec<String> = std::fs::read_dir(tmp.path().join(d))
+            .unwrap()
+            .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+            .collect();
+        v.sort();
+        v
+    };
+    assert_eq!(names("1"), names("2"));
+    assert!(names("1").len() >= 15, "tables, report and ten chart files: {:?}", names("1"));
+    for file in names("1") {
+        let one = std::fs::read(tmp.path().join("1").join(&file)).unwrap();
+        let two = std::fs::read(tmp.path().join("2").join(&file)).unwrap();
         assert!(one == two, "{file} differs between 1 and 2 threads");
     }
 }
