@@ -71,7 +71,10 @@ fn check_report(dir: &Path, json: &str, charts: usize) -> Html {
     }
     assert!(page.select(&sel("[href]")).all(|e| e.value().attr("href").unwrap().starts_with('#')));
     assert_eq!(page.select(&sel("figure svg")).count(), charts);
-    assert!(page.select(&sel("figcaption")).all(|c| c.text().collect::<String>().len() > 30));
+    for c in page.select(&sel("figcaption")) {
+        let text: String = c.text().collect();
+        assert!(text.len() > 30 && text.matches(". ").count() == 0, "one sentence saying what to look at: {text}");
+    }
     let caution: String = page.select(&sel("#cautions")).next().unwrap().text().collect();
     assert!(caution.contains("not investment advice") && caution.contains("licensed professionals"));
     let lead: String = page.select(&sel("#summary p")).next().unwrap().text().collect();

@@ -62,8 +62,8 @@ pub fn stress_charts(scenario: &Scenario, stress: &StressResult) -> Vec<Chart> {
         Chart {
             name: "stress_regret".into(),
             title: format!("What a choice gives up when another decay curve is true ({} bps)", stress.cost_bps),
-            caption: "Each row is the choice that is best under one curve; each cell is the share of the true curve's \
-                      best value it gives up. Read the first row: the cost of trusting the assumed curve."
+            caption: "Each row is the choice that is best under one curve and each cell the share of the true curve's \
+                      best value it gives up; the first row is the cost of trusting the assumed curve."
                 .into(),
             panels: vec![heat(&stress.horizon, "horizon"), heat(&stress.holding, "holding length")],
             panel_height: 90 + 46 * stress.curves.len() as u32,

@@ -57,8 +57,8 @@ pub fn study_charts(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResu
             name: "horizon_ic".into(),
             title: format!("Measured horizon IC in {histories}"),
             caption: format!(
-                "The black line is the true horizon IC; the blue bands show where one history's measurement falls. \
-                 The wider the bands around the dashed line at {}, the easier it is to pick the wrong peak.",
+                "Black is the true horizon IC and blue is where one history's measurement falls: the wider the band \
+                 around the dashed optimum at {}, the easier it is to pick the wrong peak.",
                 plural(t.best_horizon, unit)
             ),
             panels: vec![fan_panel(&study.horizon_ic, &t.horizon_ic, "horizon n", "horizon IC")],
@@ -187,8 +187,8 @@ fn net_ir_chart(portfolio: &PortfolioTruth, study: &StudyResult, unit: &str) -> 
     Chart {
         name: "net_ir".into(),
         title: "Net information ratio of the tranche book by holding length".into(),
-        caption: "The black line is the true net IR after costs; the bands show one history's measurement. Where the \
-                  bands are flat and wide, the measured best holding length is mostly noise."
+        caption: "Black is the true net IR after costs and blue is one history's measurement: where the bands are \
+                  flat and wide, the measured best holding length is mostly noise."
             .into(),
         panels,
         panel_height: per_panel,
