@@ -141,3 +141,25 @@ fn a_missing_file_and_bad_options_exit_with_two() {
     let a = Command::cargo_bin("lagfold").unwrap().args(["presets", "nope"]).assert().code(2);
     assert!(String::from_utf8_lossy(&a.get_output().stderr).contains("monthly-steady"));
 }
+
+#[test]
+fn stress_with_no_alternative_curve_is_refused() {
+    let tmp = tempfile::tempdir().unwrap();
+    let file = tmp.path().join("alone.toml");
+    std::fs::write(
+        &file,
+        format!("assets = 100\nhistory = 30\nhorizons = 4\n{DECAY}[stress]\nreplace_defaults = true\n"),
+    )
+    .unwrap();
+    let a = Command::cargo_bin("lagfold")
+        .unwrap()
+        .arg("stress")
+        .arg(&file)
+        .arg("--out")
+        .arg(tmp.path().join("o"))
+        .assert()
+        .code(2);
+    let err = String::from_utf8(a.get_output().stderr.clone()).unwrap();
+    has(&err, &["alone.toml", "replace_defaults", "[[stress.alternatives]]"]);
+    assert!(!tmp.path().join("o").exists());
+}

@@ -27,6 +27,13 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
     let out_dir =
         a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-stress", scenario.name)));
     let n_curves = 1 + if scenario.replace_default_alternatives { 0 } else { 4 } + scenario.alternatives.len();
+    if n_curves == 1 {
+        return Err(Failure::input(format!(
+            "{}: `stress.replace_defaults = true` with no `[[stress.alternatives]]` leaves nothing to stress the \
+             assumed curve against: add at least one alternative or keep the defaults",
+            a.scenario.display()
+        )));
+    }
     let bar = progress::bar(n_curves, a.study.quiet, "curves");
     let origin = a.scenario.display().to_string();
     let result = stress::run(&scenario, threads(&a.study), &|d| bar.set_position(d as u64))
