@@ -12,6 +12,9 @@ use crate::stats::quantile_sorted;
 use crate::study::Setup;
 use std::path::{Path, PathBuf};
 
+/// The smallest reference simulation a scenario accepts (`portfolio.reference_paths`).
+const MIN_REFERENCE_PATHS: usize = 10;
+
 /// Options of `measure`.
 #[derive(Debug, clap::Args)]
 pub struct MeasureArgs {
@@ -78,7 +81,11 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
         .map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '-' })
         .collect();
     let mut files = vec![];
-    match calibrate::calibrated(&measured, &name, a.study.paths.unwrap_or(2000), seed) {
+    let paths = a.study.paths.unwrap_or_else(|| calibrate::default_paths(read.panel.assets, read.panel.dates, l));
+    let calibrated = calibrate::calibrated(&measured, &name, paths, seed);
+    // The panel is no longer needed: free it before the study's own histories.
+    drop(read);
+    match calibrated {
         Ok((text, scenario)) => {
             if !a.no_study {
                 result.calibrated_study = Some(calibrated_study(scenario, &a.study)?);
@@ -115,8 +122,12 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
 }
 
 /// The study on the calibrated scenario: how often a history like the user's
-/// picks the right horizon.
-fn calibrated_study(scenario: crate::scenario::Scenario, a: &StudyArgs) -> Result<CalibratedStudy, Failure> {
+/// picks the right horizon. Only the horizon rules are reported, so the
+/// reference simulation behind the net-IR truth is cut to its minimum here (it
+/// would otherwise cost `reference_paths` full-size histories); the written
+/// `calibrated.toml` keeps the default for `lagfold run`.
+fn calibrated_study(mut scenario: crate::scenario::Scenario, a: &StudyArgs) -> Result<CalibratedStudy, Failure> {
+    scenario.portfolio.reference_paths = MIN_REFERENCE_PATHS;
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("calibrated.toml: {e}")))?;
     let (_, r) = truth_and_study(&setup, a, &[]);
     let rules = [&r.rules.peak, &r.rules.formula, &r.rules.fitted];
