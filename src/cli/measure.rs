@@ -96,7 +96,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     }
     files.push(("measure.json".into(), report::measure_json(&result)));
     files.push(("measure_lags.csv".into(), report::measure_csv(&result)));
-    let charts = super::run::charts(a.study.no_charts, || report::measure_charts(&result))?;
+    let charts = super::charts(a.study.no_charts, || report::measure_charts(&result))?;
     files.extend(charts.files);
     let settings = serde_json::json!({
         "panel": a.panel.display().to_string(),

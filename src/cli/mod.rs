@@ -70,6 +70,18 @@ pub(crate) fn print(text: &str) -> Result<(), Failure> {
     }
 }
 
+/// Draws the charts unless `--no-charts`.
+pub(crate) fn charts(
+    skip: bool,
+    build: impl FnOnce() -> Vec<crate::chart::Chart>,
+) -> Result<crate::report::ChartSet, Failure> {
+    if skip {
+        Ok(crate::report::ChartSet::default())
+    } else {
+        crate::report::ChartSet::render(&build()).map_err(Failure::other)
+    }
+}
+
 /// The closing line naming what was written: data files, then how many charts.
 pub(crate) fn outputs_line(dir: &std::path::Path, files: &[(String, Vec<u8>)]) -> String {
     let data: Vec<&str> =

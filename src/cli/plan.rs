@@ -75,7 +75,7 @@ pub fn run(a: &PlanArgs) -> Result<(), Failure> {
     bar.finish_and_clear();
     let mut files =
         vec![("plan.json".to_string(), report::plan_json(s, &result)), ("plan.csv".into(), report::plan_csv(&result))];
-    let charts = super::run::charts(a.study.no_charts, || report::plan_charts(s, &result, &a.target))?;
+    let charts = super::charts(a.study.no_charts, || report::plan_charts(s, &result, &a.target))?;
     files.extend(charts.files);
     files.push((
         "report.html".into(),

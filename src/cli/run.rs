@@ -141,7 +141,7 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
     bar.finish_and_clear();
     let mut files =
         vec![("sweep.json".to_string(), report::sweep_json(&rows)), ("sweep.csv".into(), report::sweep_csv(&rows))];
-    let charts = charts(a.no_charts, || report::sweep_charts(&rows))?;
+    let charts = super::charts(a.no_charts, || report::sweep_charts(&rows))?;
     files.extend(charts.files);
     let parameters = report::html::sweep_parameters(points);
     let page = report::html::sweep_page(name, &rows, parameters, charts.inline);
@@ -153,11 +153,6 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
         print(&text)?;
     }
     Ok(())
-}
-
-/// Draws the charts unless `--no-charts`.
-pub fn charts(skip: bool, build: impl FnOnce() -> Vec<crate::chart::Chart>) -> Result<report::ChartSet, Failure> {
-    if skip { Ok(report::ChartSet::default()) } else { report::ChartSet::render(&build()).map_err(Failure::other) }
 }
 
 /// `lagfold demo`.
@@ -189,7 +184,7 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     if !sweep.is_empty() {
         files.push(("cost_sweep.csv".into(), report::cost_sweep_csv(&result)));
     }
-    let charts = charts(a.no_charts, || report::study_charts(&setup, &portfolio, &result))?;
+    let charts = super::charts(a.no_charts, || report::study_charts(&setup, &portfolio, &result))?;
     files.extend(charts.files);
     let page = report::html::study_page(&setup, &portfolio, &result, charts.inline);
     files.push(("report.html".into(), report::html::render(&page)));

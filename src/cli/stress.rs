@@ -43,7 +43,7 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
         ("stress.json".to_string(), report::stress_json(&scenario, &result)),
         ("stress.csv".into(), report::stress_csv(&result)),
     ];
-    let charts = super::run::charts(a.study.no_charts, || report::stress_charts(&scenario, &result))?;
+    let charts = super::charts(a.study.no_charts, || report::stress_charts(&scenario, &result))?;
     files.extend(charts.files);
     let page = report::html::stress_page(&scenario, &result, charts.inline);
     files.push(("report.html".into(), report::html::render(&page)));
