@@ -93,6 +93,8 @@ fn check_report(dir: &Path, json: &str, charts: usize) -> Html {
         let text: String = f.text().collect();
         let number: f64 = text.trim_end_matches('%').parse().unwrap();
         let decimals = text.trim_end_matches('%').split('.').nth(1).map_or(0, str::len) as i32;
+        // The printed number is the value rounded to its shown decimals: within half a unit of the last
+        // digit (plus 1e-9 for the binary representation of that half).
         assert!((number - value * scale).abs() <= 0.5 * 10f64.powi(-decimals) + 1e-9, "{pointer}: {text} vs {value}");
     }
     let in_errors: Vec<String> =

@@ -42,7 +42,7 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, p: &HeatPanel) ->
     let top_mid = Pos::new(HPos::Center, VPos::Top);
     for (c, name) in p.cols.iter().enumerate() {
         let fits = |t: &str| area.estimate_text_size(t, &font).map_or(true, |s| s.0 as i32 <= cw - 8);
-        let mut lines = wrap_to(name, fits);
+        let mut lines = super::wrap_to(name, fits);
         if lines.len() > 2 {
             lines.truncate(2);
             lines[1].push('…');
@@ -59,38 +59,9 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, p: &HeatPanel) ->
     Ok(())
 }
 
-/// Greedy wrap at spaces: each line as long as `fits` allows (a single word
-/// that does not fit gets a line of its own).
-fn wrap_to(text: &str, fits: impl Fn(&str) -> bool) -> Vec<String> {
-    let mut lines: Vec<String> = Vec::new();
-    for word in text.split(' ') {
-        match lines.last_mut() {
-            Some(l) if fits(&format!("{l} {word}")) => {
-                l.push(' ');
-                l.push_str(word);
-            }
-            _ => lines.push(word.to_string()),
-        }
-    }
-    lines
-}
-
 /// White at 0 to the palette's blue at 1.
 fn shade(t: f64) -> RGBColor {
     let (r, g, b) = PALETTE.blue;
     let mix = |c: u8| (255.0 + (f64::from(c) - 255.0) * t).round() as u8;
     RGBColor(mix(r), mix(g), mix(b))
-}
-
-#[cfg(test)]
-mod tests {
-    use super::wrap_to;
-
-    #[test]
-    fn names_wrap_at_spaces_to_the_width() {
-        let fits = |t: &str| t.len() <= 8;
-        assert_eq!(wrap_to("long memory", fits), ["long", "memory"]);
-        assert_eq!(wrap_to("hump", fits), ["hump"]);
-        assert_eq!(wrap_to("a b c", fits), ["a b c"]);
-    }
 }

@@ -174,6 +174,22 @@ impl Chart {
     }
 }
 
+/// Greedy wrap at spaces: each line as long as `fits` allows (a single word
+/// that does not fit gets a line of its own).
+fn wrap_to(text: &str, fits: impl Fn(&str) -> bool) -> Vec<String> {
+    let mut lines: Vec<String> = Vec::new();
+    for word in text.split(' ') {
+        match lines.last_mut() {
+            Some(l) if fits(&format!("{l} {word}")) => {
+                l.push(' ');
+                l.push_str(word);
+            }
+            _ => lines.push(word.to_string()),
+        }
+    }
+    lines
+}
+
 fn encode_png(rgb: &[u8], (w, h): (u32, u32), title: &str) -> Result<Vec<u8>, png::EncodingError> {
     let mut out = Vec::new();
     {
@@ -249,6 +265,17 @@ mod tests {
         let info = reader.info();
         assert_eq!((info.width, info.height), (WIDTH, 650));
         assert!(info.uncompressed_latin1_text.iter().any(|t| t.keyword == "Title" && t.text == "A sample chart"));
+    }
+
+    #[test]
+    fn names_wrap_at_spaces_to_the_width() {
+        let fits = |t: &str| t.len() <= 8;
+        assert_eq!(wrap_to("long memory", fits), ["long", "memory"]);
+        assert_eq!(wrap_to("hump", fits), ["hump"]);
+        assert_eq!(wrap_to("a b c", fits), ["a b c"]);
+        let chars = |t: &str| t.chars().count() <= 18;
+        assert_eq!(wrap_to("true best horizon (7 months)", chars), ["true best horizon", "(7 months)"]);
+        assert_eq!(wrap_to("short", chars), ["short"]);
     }
 
     #[test]

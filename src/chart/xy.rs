@@ -129,6 +129,8 @@ fn draw_layer<DB: DrawingBackend>(
 
 /// Width of the legend strip right of a panel, in pixels.
 const LEGEND_WIDTH: i32 = 250;
+/// Characters of a legend line before it wraps.
+const LEGEND_CHARS: usize = 26;
 
 /// The legend in its own strip: a glyph and the label (wrapped to two lines
 /// when long) per labelled layer, top down from `top`.
@@ -137,7 +139,7 @@ fn legend<DB: DrawingBackend>(key: &DrawingArea<DB, Shift>, layers: &[&Layer], t
     let font = label_font();
     let mut y = top;
     for layer in layers {
-        let lines = wrap(label(layer), 26);
+        let lines = super::wrap_to(label(layer), |t| t.chars().count() <= LEGEND_CHARS);
         let mid = y + 8;
         let glyph = |c: &Colour| rgb(*c);
         match layer {
@@ -171,21 +173,6 @@ fn legend<DB: DrawingBackend>(key: &DrawingArea<DB, Shift>, layers: &[&Layer], t
         y += 8;
     }
     Ok(())
-}
-
-/// Splits text into lines of at most `width` characters at spaces.
-fn wrap(text: &str, width: usize) -> Vec<String> {
-    let mut lines: Vec<String> = Vec::new();
-    for word in text.split(' ') {
-        match lines.last_mut() {
-            Some(l) if l.chars().count() + 1 + word.chars().count() <= width => {
-                l.push(' ');
-                l.push_str(word);
-            }
-            _ => lines.push(word.to_string()),
-        }
-    }
-    lines
 }
 
 fn label(l: &Layer) -> &str {
@@ -259,13 +246,7 @@ fn min_max(v: &[f64]) -> Option<(f64, f64)> {
 
 #[cfg(test)]
 mod tests {
-    use super::{number, wrap};
-
-    #[test]
-    fn legend_labels_wrap_at_spaces() {
-        assert_eq!(wrap("true best horizon (7 months)", 18), ["true best horizon", "(7 months)"]);
-        assert_eq!(wrap("short", 20), ["short"]);
-    }
+    use super::number;
 
     #[test]
     fn tick_labels_use_the_step_precision() {

@@ -52,7 +52,7 @@ pub fn study_charts(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResu
             ..XyPanel::default()
         })
     };
-    let mut charts = vec![
+    vec![
         Chart {
             name: "horizon_ic".into(),
             title: format!("Measured horizon IC in {histories}"),
@@ -77,9 +77,7 @@ pub fn study_charts(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResu
         chosen_chart(setup, portfolio, study, unit),
         regret_chart(setup, portfolio, study),
         net_ir_chart(portfolio, study, unit),
-    ];
-    charts.retain(|c| !c.panels.is_empty());
-    charts
+    ]
 }
 
 fn chosen_chart(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult, unit: &str) -> Chart {

@@ -1,7 +1,7 @@
 //! The report of `measure`; figures point into `measure.json`.
 
 use super::study::rule_name;
-use super::{ErrRow, Fmt, Page, fig, int};
+use super::{ErrRow, Fmt, Page, fig, fig_opt, int};
 use crate::measure::rules::Rule;
 use crate::report::MeasureResult;
 
@@ -20,7 +20,7 @@ fn shape_words(family: &str) -> &'static str {
 pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Vec<(String, String, String)>) -> Page {
     let b = &m.best_horizon;
     let bs = &m.bootstrap;
-    let se_or = |p: &str, v: Option<f64>| v.map_or_else(|| "n/a".to_string(), |v| fig(p, v, Fmt::Num(4)));
+    let se_or = |p: &str, v: Option<f64>| fig_opt(p, v, Fmt::Num(4), "n/a");
     let mut summary = vec![
         format!(
             "lagfold measured {} dates and {} assets of your panel with the estimators its simulations use: the \

@@ -43,6 +43,12 @@ pub fn fig(pointer: &str, value: f64, f: Fmt) -> String {
     format!(r#"<span class="fig" data-json="{pointer}" data-value="{value}" data-scale="{scale}">{text}</span>"#)
 }
 
+/// A figure that may be absent (a standard error needs two observations):
+/// `absent` says why there is none.
+pub fn fig_opt(pointer: &str, value: Option<f64>, f: Fmt, absent: &str) -> String {
+    value.map_or_else(|| absent.to_string(), |v| fig(pointer, v, f))
+}
+
 /// A whole number from the JSON document.
 pub fn int(pointer: &str, value: usize) -> String {
     fig(pointer, value as f64, Fmt::Num(0))

@@ -1,6 +1,6 @@
 //! The report of a study (`run`, `demo`); figures point into `summary.json`.
 
-use super::{ErrRow, Fmt, Page, fig, int};
+use super::{ErrRow, Fmt, Page, fig, fig_opt, int};
 use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
 use crate::report::charts::units;
@@ -58,7 +58,7 @@ pub fn study_methods() -> Vec<(String, String)> {
 
 /// Rows of the error table for one rule's record; `at` is its JSON pointer.
 pub fn rule_error_rows(name: &str, r: &RuleStats, at: &str) -> Vec<ErrRow> {
-    let opt = |p: &str, v: Option<f64>, f: Fmt| v.map_or_else(|| "n/a (one path)".to_string(), |v| fig(p, v, f));
+    let opt = |p: &str, v: Option<f64>, f: Fmt| fig_opt(p, v, f, "n/a (one path)");
     let mut rows = vec![
         ErrRow::new(
             format!("{name}: exact hit rate"),
