@@ -1,54 +1,48 @@
-//! How well the overlap-aware standard errors cover the real spread: for a
-//! preset, simulate 1,500 histories and print, per horizon, the root-mean-square
-//! standard error of the mean divided by the actual spread of the mean across
-//! histories (1.0 is perfect), beside Newey–West with only `n − 1` lags.
+//! How often the 95 % intervals `measure` reports cover the truth: for every
+//! preset (or the one named), simulate histories with horizons up to a
+//! quarter of the history and print, per lag and horizon, the coverage of the
+//! EWC intervals (lagged and horizon ICs) beside Newey–West with a normal
+//! critical value (horizon ICs). 0.95 is right; the binomial error is printed.
 //!
-//! `cargo run --release --example se_coverage -- monthly-regimes`
+//! `cargo run --release --example se_coverage -- [preset] [paths] [assets]`
 
-use lagfold::generate::Workspace;
-use lagfold::measure::{Measurement, hac};
-use lagfold::rng::path_rng;
 use lagfold::scenario::{self, Overrides, presets};
 use lagfold::study::Setup;
+use lagfold::study::coverage::interval_coverage;
+
 fn main() {
-    let name = std::env::args().nth(1).unwrap_or("monthly-steady".into());
-    let ov = Overrides { paths: Some(1500), ..Default::default() };
-    let s = scenario::load(presets::text(&name).unwrap(), "x", "x", &ov).unwrap();
-    let setup = Setup::new(s).unwrap();
-    let l = setup.scenario.horizons;
-    let mut ws = Workspace::default();
-    let mut m = Measurement::new(l, false);
-    let (mut means, mut ses, mut nw_n1, mut lag_means, mut lag_ses) =
-        (vec![vec![]; l], vec![vec![]; l], vec![vec![]; l], vec![vec![]; l], vec![vec![]; l]);
-    for p in 0..1500u64 {
-        setup.generator.simulate(&mut path_rng(1, p), &mut ws);
-        m.update(&ws.panel);
-        for n in 1..=l {
-            let x = m.horizon.series(n);
-            let (mu, se) = hac::mean_and_se(x, hac::hac_lags(x, n));
-            means[n - 1].push(mu);
-            ses[n - 1].push(se.unwrap());
-            nw_n1[n - 1].push(hac::mean_and_se(x, n - 1).1.unwrap());
-            let y = m.lagged.series(n);
-            let (mu, se) = hac::mean_and_se(y, hac::hac_lags(y, 1));
-            lag_means[n - 1].push(mu);
-            lag_ses[n - 1].push(se.unwrap());
-        }
-    }
-    let sd = |v: &Vec<f64>| {
-        let mu = v.iter().sum::<f64>() / v.len() as f64;
-        (v.iter().map(|x| (x - mu).powi(2)).sum::<f64>() / (v.len() - 1) as f64).sqrt()
+    let args: Vec<String> = std::env::args().collect();
+    let names: Vec<String> = match args.get(1) {
+        Some(n) if n != "all" => vec![n.clone()],
+        _ => presets::ALL.iter().map(|(n, _)| n.to_string()).collect(),
     };
-    let rms = |v: &Vec<f64>| (v.iter().map(|x| x * x).sum::<f64>() / v.len() as f64).sqrt();
-    println!("n  horizon: rmsSE/sd (ours)  (NW n-1)   lagged: rmsSE/sd");
-    for n in [1, 2, 3, 6, 9, 12, 18, 24, 26, 40] {
-        if n <= l {
+    let paths: usize = args.get(2).map_or(2000, |s| s.parse().expect("paths"));
+    let assets: Option<usize> = args.get(3).map(|s| s.parse().expect("assets"));
+    for name in names {
+        let text = presets::text(&name).expect("a preset name");
+        let base = scenario::load(text, &name, &name, &Overrides { assets, ..Overrides::default() }).unwrap();
+        let ov = Overrides { assets, horizons: Some(base.history / 4), ..Overrides::default() };
+        let setup = Setup::new(scenario::load(text, &name, &name, &ov).unwrap()).unwrap();
+        let c = interval_coverage(&setup, paths, 1, None);
+        let s = &setup.scenario;
+        println!(
+            "\n{name}: {} assets × {} dates, horizons 1–{} (a quarter of the history), {paths} histories; ± {:.3}",
+            s.assets,
+            s.history,
+            s.horizons,
+            c.rate_se()
+        );
+        println!("     n   lagged IC  horizon IC  horizon IC, Newey–West + 1.96");
+        let step = (s.horizons / 8).max(1);
+        for n in (1..=s.horizons).filter(|n| *n <= 3 || n % step == 0 || *n == s.horizons) {
             println!(
-                "{n:>2}  {:.3}  {:.3}   {:.3}",
-                rms(&ses[n - 1]) / sd(&means[n - 1]),
-                rms(&nw_n1[n - 1]) / sd(&means[n - 1]),
-                rms(&lag_ses[n - 1]) / sd(&lag_means[n - 1])
+                "  {n:>4}   {:>9.3}  {:>10.3}  {:>10.3}",
+                c.lagged[n - 1],
+                c.horizon[n - 1],
+                c.horizon_newey_west[n - 1]
             );
         }
+        let min = |v: &[f64]| v.iter().copied().fold(1.0, f64::min);
+        println!("  lowest {:>9.3}  {:>10.3}  {:>10.3}", min(&c.lagged), min(&c.horizon), min(&c.horizon_newey_west));
     }
 }

@@ -11,6 +11,7 @@
 
 mod banded;
 pub mod bootstrap;
+pub mod ewc;
 pub mod extras;
 pub mod fit;
 pub mod hac;
@@ -94,6 +95,13 @@ impl PerDate {
     /// the horizon) and false for lagged ICs (lag count as for horizon 1).
     pub fn means_and_se(&self, overlap: bool) -> (Vec<f64>, Vec<Option<f64>>) {
         self.means_and_se_upto(overlap, usize::MAX)
+    }
+
+    /// Means with EWC standard errors and 95 % intervals ([`ewc::interval`]),
+    /// `None` where a lag has too few dates; `overlap` as in
+    /// [`PerDate::means_and_se`]. The reported errors of `measure`.
+    pub fn intervals(&self, overlap: bool) -> Vec<Option<ewc::Interval>> {
+        (1..=self.len()).map(|k| ewc::interval(self.series(k), if overlap { k } else { 1 })).collect()
     }
 
     /// [`PerDate::means_and_se`] over the first `dates` dates.

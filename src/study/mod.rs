@@ -3,6 +3,7 @@
 //! outcomes are folded in path order, so the result is byte-identical whatever
 //! the thread count.
 
+pub mod coverage;
 mod outcomes;
 mod records;
 mod worker;
