@@ -75,6 +75,12 @@ pub fn calibrated(m: &Measured, name: &str, paths: usize, seed: u64) -> Result<(
             .collect(),
     );
     let f = m.fit;
+    if ![f.amplitude, f.shape1, f.shape2].iter().all(|x| x.is_finite()) {
+        return Err(format!("the fitted {} curve is not finite", f.family.name()));
+    }
+    if !(assets.is_finite() && assets >= 3.0) {
+        return Err("no date has three assets with a forecast".into());
+    }
     let decay = match f.family {
         Family::Exponential => {
             format!("family = \"exponential\"\nic1 = {:.6}\nhalf_life = {:.4}", f.amplitude, f.shape1)

@@ -26,6 +26,32 @@ pub struct ReadOptions {
     pub ret: String,
     /// Returns are over the period ending at the row's date.
     pub backward: bool,
+    /// Refuse panels whose matrices would need more bytes than this.
+    pub max_bytes: u64,
+}
+
+/// Bytes per date × asset cell that measuring a panel may hold at once: the
+/// two matrices read (forecasts and returns), and on a complete panel the
+/// estimators' standardised copies of both and the rank-transformed pair.
+pub const BYTES_PER_CELL: u64 = 6 * 8;
+
+/// A quarter of physical memory (from `/proc/meminfo`; 4 GiB when unknown):
+/// the default budget of a panel.
+pub fn default_max_bytes() -> u64 {
+    let total = std::fs::read_to_string("/proc/meminfo").ok().and_then(|t| {
+        t.lines().find(|l| l.starts_with("MemTotal:")).and_then(|l| l.split_whitespace().nth(1)?.parse::<u64>().ok())
+    });
+    total.map_or(4 << 30, |kib| kib * 1024 / 4)
+}
+
+/// Bytes in words: `1.5 GiB`, `320 MiB`.
+pub fn bytes_words(b: u64) -> String {
+    let b = b as f64;
+    if b >= (1u64 << 30) as f64 {
+        format!("{:.1} GiB", b / (1u64 << 30) as f64)
+    } else {
+        format!("{:.0} MiB", b / (1u64 << 20) as f64)
+    }
 }
 
 impl Default for ReadOptions {
@@ -36,6 +62,7 @@ impl Default for ReadOptions {
             forecast: "forecast".into(),
             ret: "return".into(),
             backward: false,
+            max_bytes: default_max_bytes(),
         }
     }
 }
@@ -101,17 +128,49 @@ pub enum ReadError {
         /// The asset.
         asset: String,
     },
-    /// Too few dates for the longest horizon.
-    #[error("{path}: {dates} dates are too few for horizons up to {horizons} (need at least {needed})")]
+    /// Too few dates to measure anything.
+    #[error(
+        "{path}: {dates} dates are too few: measuring needs at least {needed} (horizons up to a quarter of the history, and at least 2)"
+    )]
     TooShort {
         /// The file.
         path: PathBuf,
         /// Dates found.
         dates: usize,
-        /// Longest horizon asked for.
-        horizons: usize,
         /// Dates needed.
         needed: usize,
+    },
+    /// Two roles given the same column.
+    #[error(
+        "{path}: column `{column}` is named as both the {first} and the {second} column; name each role's own column"
+    )]
+    SameColumn {
+        /// The file.
+        path: PathBuf,
+        /// The column.
+        column: String,
+        /// One role.
+        first: &'static str,
+        /// The other.
+        second: &'static str,
+    },
+    /// The panel would not fit the memory budget.
+    #[error(
+        "{path}: {dates} dates × {assets} assets would need about {need} to measure, over the budget of {budget} \
+         (a quarter of this machine's memory unless --max-memory says otherwise); measure a shorter span or fewer assets, \
+         or raise --max-memory"
+    )]
+    TooLarge {
+        /// The file.
+        path: PathBuf,
+        /// Dates (periods) found.
+        dates: usize,
+        /// Assets found.
+        assets: usize,
+        /// Bytes needed, in words.
+        need: String,
+        /// The budget, in words.
+        budget: String,
     },
 }
 
@@ -128,6 +187,82 @@ pub struct ReadPanel {
     pub warnings: Vec<String>,
     /// Median gap between consecutive dates, in days.
     pub median_gap_days: f64,
+    /// The calendar the dates follow.
+    pub frequency: Frequency,
+    /// Periods with no row at all (ISO dates), inserted as empty dates.
+    pub missing_periods: Vec<String>,
+}
+
+/// The calendar inferred from a panel's dates. Lags count periods of it, so a
+/// missing month is an empty date, not a shifted one.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Frequency {
+    /// One date a calendar month (any day of it; month ends typically).
+    Monthly,
+    /// One date a week, on the same weekday.
+    Weekly,
+    /// Weekdays; a missing weekday is a holiday, not a missing period.
+    BusinessDaily,
+    /// None of these: each date is one period.
+    Rows,
+}
+
+impl Frequency {
+    /// Name in outputs.
+    pub fn name(self) -> &'static str {
+        match self {
+            Frequency::Monthly => "monthly",
+            Frequency::Weekly => "weekly",
+            Frequency::BusinessDaily => "business-daily",
+            Frequency::Rows => "irregular (one period per date)",
+        }
+    }
+}
+
+/// The smallest history `measure` accepts: horizons up to a quarter of it, at least 2.
+pub const MIN_DATES: usize = 8;
+
+/// Month index `12·year + month − 1` of a day count.
+fn month_index(z: i64) -> i64 {
+    let (y, m, _) = crate::calendar::civil_from_days(z);
+    12 * y + i64::from(m) - 1
+}
+
+/// Weekday of a day count, Monday = 0 (1970-01-01 was a Thursday).
+fn weekday(z: i64) -> i64 {
+    (z + 3).rem_euclid(7)
+}
+
+/// The calendar of sorted distinct days, and each day's period index (from 0).
+fn periods(days: &[i64], median_gap: i64) -> (Frequency, Vec<i64>) {
+    let months: Vec<i64> = days.iter().map(|&z| month_index(z)).collect();
+    if (27..=32).contains(&median_gap) && months.windows(2).all(|w| w[1] > w[0]) {
+        return (Frequency::Monthly, months.iter().map(|m| m - months[0]).collect());
+    }
+    if median_gap == 7 && days.iter().all(|z| weekday(*z) == weekday(days[0])) {
+        return (Frequency::Weekly, days.iter().map(|z| (z - days[0]) / 7).collect());
+    }
+    if median_gap == 1 && days.iter().all(|z| weekday(*z) < 5) {
+        return (Frequency::BusinessDaily, (0..days.len() as i64).collect());
+    }
+    (Frequency::Rows, (0..days.len() as i64).collect())
+}
+
+/// The ISO date of period `i` of a monthly (last day of the month) or weekly calendar starting at `first`.
+fn period_date(freq: Frequency, first: i64, i: i64) -> String {
+    let z = match freq {
+        Frequency::Monthly => {
+            let mi = month_index(first) + i + 1; // the first day of the next month, minus one
+            crate::calendar::days_from_civil(mi.div_euclid(12), (mi.rem_euclid(12) + 1) as u32, 1) - 1
+        }
+        _ => first + 7 * i,
+    };
+    iso(z)
+}
+
+fn iso(z: i64) -> String {
+    let (y, m, d) = crate::calendar::civil_from_days(z);
+    format!("{y:04}-{m:02}-{d:02}")
 }
 
 /// Days since 1970-01-01 of a `YYYY-MM-DD` date, if it is one.
@@ -144,11 +279,22 @@ fn parse_date(s: &str) -> Option<i64> {
     ((1..=12).contains(&m) && d >= 1 && d <= days_in[m as usize - 1]).then(|| days_from_civil(y, m, d))
 }
 
-/// Reads `path` into a panel for horizons up to `horizons`.
+/// Reads `path` into a panel.
 ///
 /// # Errors
 /// Every [`ReadError`], naming the file and line.
-pub fn read_panel(path: &Path, opts: &ReadOptions, horizons: usize) -> Result<ReadPanel, ReadError> {
+pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadError> {
+    let roles = [(&opts.date, "date"), (&opts.asset, "asset"), (&opts.forecast, "forecast"), (&opts.ret, "return")];
+    for (i, a) in roles.iter().enumerate() {
+        if let Some(b) = roles[i + 1..].iter().find(|b| b.0 == a.0) {
+            return Err(ReadError::SameColumn {
+                path: path.to_path_buf(),
+                column: a.0.clone(),
+                first: a.1,
+                second: b.1,
+            });
+        }
+    }
     let io = |e: &dyn std::fmt::Display| ReadError::Io { path: path.to_path_buf(), message: e.to_string() };
     let mut rdr = csv::ReaderBuilder::new().trim(csv::Trim::All).from_path(path).map_err(|e| io(&e))?;
     let header = rdr.headers().map_err(|e| io(&e))?.clone();
@@ -202,6 +348,10 @@ pub fn read_panel(path: &Path, opts: &ReadOptions, horizons: usize) -> Result<Re
         let n_assets = asset_ids.len() as u32;
         let a = *asset_ids.entry(field(ca).to_string()).or_insert(n_assets);
         cells.push((d, a, u32::try_from(line).unwrap_or(u32::MAX), f, r));
+        let (t, n) = (date_ids.len() as u64, asset_ids.len() as u64);
+        if rows.is_multiple_of(4096) && (t * n * BYTES_PER_CELL).max(rows * 32) > opts.max_bytes {
+            return Err(too_large(path, t as usize, n as usize, opts.max_bytes));
+        }
     }
     // Duplicates: sort by (date, asset, line) in place and compare neighbours.
     cells.sort_unstable_by_key(|c| (c.0, c.1, c.2));
@@ -221,9 +371,8 @@ pub fn read_panel(path: &Path, opts: &ReadOptions, horizons: usize) -> Result<Re
     drop(asset_ids);
     let mut days: Vec<(i64, u32)> = date_ids.into_iter().collect();
     days.sort_unstable();
-    let needed = horizons + 2;
-    if days.len() < needed {
-        return Err(ReadError::TooShort { path: path.to_path_buf(), dates: days.len(), horizons, needed });
+    if days.len() < MIN_DATES {
+        return Err(ReadError::TooShort { path: path.to_path_buf(), dates: days.len(), needed: MIN_DATES });
     }
     let mut warnings = Vec::new();
     if unsorted {
@@ -232,19 +381,61 @@ pub fn read_panel(path: &Path, opts: &ReadOptions, horizons: usize) -> Result<Re
     let mut gaps: Vec<i64> = days.windows(2).map(|w| w[1].0 - w[0].0).collect();
     gaps.sort_unstable();
     let median = gaps[gaps.len() / 2];
-    if gaps.last().is_some_and(|&g| g > 2 * median.max(1) + 3) {
-        warnings.push(format!(
-            "dates are irregular (gaps from {} to {} days, median {median}); one period was assumed between consecutive dates",
-            gaps[0],
-            gaps[gaps.len() - 1]
-        ));
+    let day_list: Vec<i64> = days.iter().map(|d| d.0).collect();
+    let (frequency, index) = periods(&day_list, median);
+    let t = (index[index.len() - 1] + 1) as usize;
+    let mut missing_periods = Vec::new();
+    match frequency {
+        Frequency::Monthly | Frequency::Weekly => {
+            let mut have = index.iter().peekable();
+            for i in 0..t as i64 {
+                if have.peek() == Some(&&i) {
+                    have.next();
+                } else {
+                    missing_periods.push(period_date(frequency, day_list[0], i));
+                }
+            }
+            if !missing_periods.is_empty() {
+                warnings.push(format!(
+                    "{} {} period(s) have no rows ({}); each is kept as an empty date, so lags across it still count periods",
+                    missing_periods.len(),
+                    frequency.name(),
+                    missing_periods.join(", ")
+                ));
+            }
+        }
+        Frequency::BusinessDaily => {
+            let long: Vec<String> = day_list
+                .windows(2)
+                .filter(|w| w[1] - w[0] > 7)
+                .map(|w| format!("{} to {}", iso(w[0]), iso(w[1])))
+                .collect();
+            if !long.is_empty() {
+                warnings.push(format!(
+                    "business-daily dates with gaps longer than a week ({}); lags count trading dates, so each gap is one period",
+                    long.join(", ")
+                ));
+            }
+        }
+        Frequency::Rows => {
+            if gaps.last().is_some_and(|&g| g > 2 * median.max(1) + 3) {
+                warnings.push(format!(
+                    "dates follow no monthly, weekly or business-daily calendar (gaps from {} to {} days, median \
+                     {median}); one period was assumed between consecutive dates",
+                    gaps[0],
+                    gaps[gaps.len() - 1]
+                ));
+            }
+        }
     }
     let n = n_assets_total;
+    if (t as u64) * (n as u64) * BYTES_PER_CELL > opts.max_bytes {
+        return Err(too_large(path, t, n, opts.max_bytes));
+    }
     let mut order = vec![0usize; days.len()];
     for (pos, &(_, id)) in days.iter().enumerate() {
-        order[id as usize] = pos;
+        order[id as usize] = index[pos] as usize;
     }
-    let t = days.len();
     let mut panel = Panel {
         assets: n,
         dates: t,
@@ -262,12 +453,19 @@ pub fn read_panel(path: &Path, opts: &ReadOptions, horizons: usize) -> Result<Re
         }
     }
     panel.has_missing = panel.forecasts.iter().chain(&panel.returns).any(|x| x.is_nan());
-    let dates = days
-        .iter()
-        .map(|&(z, _)| {
-            let (y, m, d) = crate::calendar::civil_from_days(z);
-            format!("{y:04}-{m:02}-{d:02}")
-        })
-        .collect();
-    Ok(ReadPanel { panel, dates, rows, warnings, median_gap_days: median as f64 })
+    let mut dates: Vec<String> = (0..t as i64).map(|i| period_date(frequency, day_list[0], i)).collect();
+    for (pos, &(z, _)) in days.iter().enumerate() {
+        dates[index[pos] as usize] = iso(z);
+    }
+    Ok(ReadPanel { panel, dates, rows, warnings, median_gap_days: median as f64, frequency, missing_periods })
+}
+
+fn too_large(path: &Path, dates: usize, assets: usize, budget: u64) -> ReadError {
+    ReadError::TooLarge {
+        path: path.to_path_buf(),
+        dates,
+        assets,
+        need: bytes_words(dates as u64 * assets as u64 * BYTES_PER_CELL),
+        budget: bytes_words(budget),
+    }
 }

@@ -208,7 +208,7 @@ fn bad_panels_are_refused_with_file_and_line() {
     let err = fails(&lines.join("\n"), &[]);
     assert!(err.contains("line 4: asset \"A1\" appears twice on 2001-01-15 (first on line 3)"), "{err}");
     let err = fails(&rows(3), &[]);
-    assert!(err.contains("3 dates are too few for horizons up to 2 (need at least 4)"), "{err}");
+    assert!(err.contains("3 dates are too few: measuring needs at least 8"), "{err}");
 }
 
 #[test]

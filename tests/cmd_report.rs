@@ -54,7 +54,7 @@ fn check_charts(dir: &Path, charts: &[(&str, &str)]) {
 fn needs_no_error_row(pointer: &str) -> bool {
     ["/study/cost_bps", "/cost_bps", "/fitted_shape"].contains(&pointer)
         || ["/horizon/", "/holding/"].iter().any(|p| pointer.starts_with(p))
-        || pointer.contains("/se/")
+        || ["/se/", "/ci_low/", "/ci_high/"].iter().any(|p| pointer.contains(p))
 }
 
 /// The report parses, has every section, is self-contained, and its figures
@@ -204,7 +204,7 @@ fn measure_draws_the_users_curves_and_the_bootstrap() {
         .success();
     check_charts(&out, &[("measured_ic", "Your signal's measured decay"), ("bootstrap", "bootstrap resamples")]);
     let svg = std::fs::read_to_string(out.join("measured_ic.svg")).unwrap();
-    assert!(svg.contains("fitted") && svg.contains("2 s.e."));
+    assert!(svg.contains("fitted") && svg.contains("95% interval"));
     check_report(&out, "measure.json", 2);
 }
 

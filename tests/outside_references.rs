@@ -24,7 +24,7 @@ fn sign_agreement_follows_sheppard() {
     let s = setup(&one_lag(0.2, 1000, 200, 20));
     let (mut agree, mut total) = (0, 0);
     for_each_path(&s, |p, _| {
-        let (a, t) = sign_agreement(p, 1);
+        let (a, t) = sign_agreement(p, 1, 3);
         agree += a;
         total += t;
     });
@@ -87,7 +87,7 @@ fn binary_forecast_success_ratio_is_one_plus_ic_over_two() {
         let binary = Panel { forecasts: sign(&p.forecasts), returns: sign(&p.returns), ..p.clone() };
         m.update(&binary);
         ics.extend_from_slice(m.lagged.series(1));
-        let (a, t) = sign_agreement(&binary, 1);
+        let (a, t) = sign_agreement(&binary, 1, 3);
         agree += a;
         total += t;
     });

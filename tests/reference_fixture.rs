@@ -20,7 +20,7 @@ fn floats(v: &Value) -> Vec<f64> {
 
 #[test]
 fn per_date_ics_means_and_newey_west_match_scipy_and_statsmodels() {
-    let read = read_panel(Path::new("tests/fixtures/reference_panel.csv"), &ReadOptions::default(), 3).unwrap();
+    let read = read_panel(Path::new("tests/fixtures/reference_panel.csv"), &ReadOptions::default()).unwrap();
     assert!(read.panel.has_missing, "the fixture has a missing forecast and a missing return");
     let mut m = Measurement::new(3, true).with_min_assets(3);
     m.update(&read.panel);

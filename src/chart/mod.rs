@@ -176,7 +176,7 @@ impl Chart {
 
 /// Greedy wrap at spaces: each line as long as `fits` allows (a single word
 /// that does not fit gets a line of its own).
-fn wrap_to(text: &str, fits: impl Fn(&str) -> bool) -> Vec<String> {
+pub(crate) fn wrap_to(text: &str, fits: impl Fn(&str) -> bool) -> Vec<String> {
     let mut lines: Vec<String> = Vec::new();
     for word in text.split(' ') {
         match lines.last_mut() {

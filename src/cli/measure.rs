@@ -4,16 +4,42 @@
 use super::run::{StudyArgs, truth_and_study};
 use super::{Failure, print};
 use crate::calibrate;
-use crate::measure::rules::choose;
-use crate::measure::{Measurement, bootstrap, extras, fit, sign};
+use crate::measure::rules::choose_measured;
+use crate::measure::{Measurement, Panel, bootstrap, extras, fit, sign};
 use crate::reader::{ReadOptions, read_panel};
-use crate::report::{self, BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult};
-use crate::stats::quantile_sorted;
+use crate::report::{
+    self, BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult, SuccessRatio, TimingCheck, finite,
+};
 use crate::study::Setup;
 use std::path::{Path, PathBuf};
 
 /// The smallest reference simulation a scenario accepts (`portfolio.reference_paths`).
 const MIN_REFERENCE_PATHS: usize = 10;
+
+/// Longest horizon measured when `--horizons` is not given (cut to a quarter of the history).
+const DEFAULT_HORIZONS: usize = 24;
+
+/// A budget in bytes: a number with an optional `K`, `M`, `G` or `T` suffix (powers of 1024).
+fn parse_bytes(s: &str) -> Result<u64, String> {
+    let t = s.trim();
+    let (num, mult) = match t.char_indices().last() {
+        Some((i, c)) if c.is_ascii_alphabetic() => {
+            let m = match c.to_ascii_uppercase() {
+                'K' => 1u64 << 10,
+                'M' => 1 << 20,
+                'G' => 1 << 30,
+                'T' => 1 << 40,
+                _ => return Err(format!("`{s}`: use a number of bytes with K, M, G or T (e.g. 8G)")),
+            };
+            (&t[..i], m)
+        }
+        _ => (t, 1),
+    };
+    match num.parse::<f64>() {
+        Ok(v) if v.is_finite() && v >= 1.0 => Ok((v * mult as f64).min(u64::MAX as f64) as u64),
+        _ => Err(format!("`{s}`: use a positive number of bytes with K, M, G or T (e.g. 8G)")),
+    }
+}
 
 /// Options of `measure`.
 #[derive(Debug, clap::Args)]
@@ -36,9 +62,13 @@ pub struct MeasureArgs {
     /// period that starts at it).
     #[arg(long)]
     pub backward_returns: bool,
-    /// Dates where fewer assets have both values are skipped.
-    #[arg(long, default_value_t = 20)]
-    pub min_assets: usize,
+    /// Dates where fewer assets have both values are skipped (at least 3).
+    #[arg(long, default_value_t = 20, value_parser = clap::value_parser!(u32).range(3..))]
+    pub min_assets: u32,
+    /// Refuse panels that would need more memory than this (e.g. 8G; default a
+    /// quarter of physical memory).
+    #[arg(long, value_parser = parse_bytes)]
+    pub max_memory: Option<u64>,
     /// Do not run the study on the calibrated scenario.
     #[arg(long)]
     pub no_study: bool,
@@ -52,47 +82,85 @@ pub struct MeasureArgs {
 
 /// `lagfold measure`.
 pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
+    for (given, flag) in [
+        (a.study.assets.is_some(), "--assets"),
+        (a.study.history.is_some(), "--history"),
+        (!a.study.cost_bps.is_empty(), "--cost-bps"),
+    ] {
+        if given {
+            return Err(Failure::input(format!(
+                "{flag} does not apply to `measure`: breadth and history come from the panel (edit calibrated.toml \
+                 and `lagfold run` it to ask what-if questions)"
+            )));
+        }
+    }
     let opts = ReadOptions {
         date: a.date_column.clone(),
         asset: a.asset_column.clone(),
         forecast: a.forecast_column.clone(),
         ret: a.return_column.clone(),
         backward: a.backward_returns,
+        max_bytes: a.max_memory.unwrap_or_else(crate::reader::default_max_bytes),
     };
-    let l = a.study.horizons.unwrap_or(24);
-    if l == 0 {
+    if a.study.horizons == Some(0) {
         return Err(Failure::input("`--horizons` must be at least 1, got 0"));
     }
-    let read = read_panel(&a.panel, &opts, l).map_err(Failure::input)?;
-    let seed = a.study.seed.unwrap_or(1);
-    let (mut result, fit) = measure(&read, &a.panel, l, a.min_assets, a.backward_returns, (a.bootstrap as usize, seed));
     let stem = a.panel.file_stem().map_or("panel".into(), |s| s.to_string_lossy().into_owned());
     let out_dir = a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{stem}-measure")));
-    let measured = calibrate::Measured {
-        panel: &read.panel,
-        median_gap_days: read.median_gap_days,
+    let mut read = read_panel(&a.panel, &opts).map_err(Failure::input)?;
+    let cap = read.panel.dates / 4;
+    let requested = a.study.horizons.unwrap_or(DEFAULT_HORIZONS);
+    let l = requested.min(cap);
+    if a.study.horizons.is_some() && requested > cap {
+        read.warnings.push(format!(
+            "horizons cut from {requested} to {cap}: the history has {} periods, and a horizon-n mean needs about 4n \
+             of them for its 95% interval to hold (checked up to a quarter of the history)",
+            read.panel.dates
+        ));
+    }
+    let seed = a.study.seed.unwrap_or(1);
+    let settings = Settings {
         horizons: l,
-        fit: &fit,
-        forecast_autocorrelation: result.forecast_autocorrelation,
-        ic_volatility: result.ic_volatility,
+        horizons_requested: requested,
+        min_assets: a.min_assets as usize,
+        backward: a.backward_returns,
+        bootstrap: (a.bootstrap as usize, seed),
     };
+    let (mut result, fit) = measure(&read, &a.panel, &settings).map_err(Failure::input)?;
     let name: String = format!("{stem}-calibrated")
         .chars()
         .map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '-' })
         .collect();
     let mut files = vec![];
     let paths = a.study.paths.unwrap_or_else(|| calibrate::default_paths(read.panel.assets, read.panel.dates, l));
-    let calibrated = calibrate::calibrated(&measured, &name, paths, seed);
+    let calibrated = match &fit {
+        Some(fit) => calibrate::calibrated(
+            &calibrate::Measured {
+                panel: &read.panel,
+                median_gap_days: read.median_gap_days,
+                horizons: l,
+                fit,
+                forecast_autocorrelation: result.forecast_autocorrelation,
+                ic_volatility: result.ic_volatility,
+            },
+            &name,
+            paths,
+            seed,
+        ),
+        None => Err("no decay curve could be fitted: some lagged ICs have no dates or no standard error".into()),
+    };
     // The panel is no longer needed: free it before the study's own histories.
     drop(read);
     match calibrated {
         Ok((text, scenario)) => {
             if !a.no_study {
-                result.calibrated_study = Some(calibrated_study(scenario, &a.study)?);
+                let (study, sims) = calibrated_study(scenario, &a.study)?;
+                result.calibrated_study = Some(study);
+                compare_errors(&mut result, &sims);
             }
             files.push(("calibrated.toml".to_string(), text.into_bytes()));
         }
-        Err(e) => result.warnings.push(format!("no calibrated scenario: {e}")),
+        Err(e) => result.warnings.push(format!("no calibrated scenario (calibrated.toml not written): {e}")),
     }
     files.push(("measure.json".into(), report::measure_json(&result)));
     files.push(("measure_lags.csv".into(), report::measure_csv(&result)));
@@ -122,100 +190,247 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
 }
 
 /// The study on the calibrated scenario: how often a history like the user's
-/// picks the right horizon. Only the horizon rules are reported, so the
-/// reference simulation behind the net-IR truth is cut to its minimum here (it
-/// would otherwise cost `reference_paths` full-size histories); the written
-/// `calibrated.toml` keeps the default for `lagfold run`.
-fn calibrated_study(mut scenario: crate::scenario::Scenario, a: &StudyArgs) -> Result<CalibratedStudy, Failure> {
+/// picks the right horizon, and the spread of each mean across its histories.
+/// Only the horizon rules are reported, so the reference simulation behind
+/// the net-IR truth is cut to its minimum here (it would otherwise cost
+/// `reference_paths` full-size histories); the written `calibrated.toml`
+/// keeps the default for `lagfold run`.
+fn calibrated_study(
+    mut scenario: crate::scenario::Scenario,
+    a: &StudyArgs,
+) -> Result<(CalibratedStudy, SimulatedSpread), Failure> {
     scenario.portfolio.reference_paths = MIN_REFERENCE_PATHS;
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("calibrated.toml: {e}")))?;
     let (_, r) = truth_and_study(&setup, a, &[]);
     let rules = [&r.rules.peak, &r.rules.formula, &r.rules.fitted];
-    Ok(CalibratedStudy {
-        scenario_file: "calibrated.toml".into(),
-        paths: r.paths,
-        true_best_horizon: setup.truth.best_horizon,
-        near_hit_rate: rules.map(|x| x.near_hit_rate),
-        near_hit_rate_se: rules.map(|x| x.near_hit_rate_se),
-        regret_rel_mean: rules.map(|x| x.regret_rel_mean),
-    })
+    let sqrt_paths = (r.paths as f64).sqrt();
+    let spread = |c: &crate::study::CurveStats| c.mean_se.iter().map(|s| s.map(|s| s * sqrt_paths)).collect();
+    Ok((
+        CalibratedStudy {
+            scenario_file: "calibrated.toml".into(),
+            paths: r.paths,
+            true_best_horizon: setup.truth.best_horizon,
+            near_hit_rate: rules.map(|x| x.near_hit_rate),
+            near_hit_rate_se: rules.map(|x| x.near_hit_rate_se),
+            regret_rel_mean: rules.map(|x| x.regret_rel_mean),
+        },
+        [spread(&r.lagged_ic), spread(&r.horizon_ic)],
+    ))
 }
 
-/// Every figure of a read panel; `boot` is `(resamples, seed)` of the
-/// stationary bootstrap.
+/// The spread of the mean lagged and horizon ICs across the calibrated study's histories.
+type SimulatedSpread = [Vec<Option<f64>>; 2];
+
+/// Sets each curve's simulated spread and lists where it and the measured
+/// standard error differ by more than a quarter.
+fn compare_errors(result: &mut MeasureResult, sims: &SimulatedSpread) {
+    for (name, curve, sim) in
+        [("lagged IC", &mut result.lagged_ic, &sims[0]), ("horizon IC", &mut result.horizon_ic, &sims[1])]
+    {
+        curve.se_simulated = sim.iter().map(|s| s.and_then(crate::report::finite)).collect();
+        for (i, (se, sim)) in curve.se.iter().zip(&curve.se_simulated).enumerate() {
+            if let (Some(se), Some(sim)) = (se, sim)
+                && *sim > 0.0
+                && (se / sim - 1.0).abs() > 0.25
+            {
+                result.se_disagreements.push((name.to_string(), i + 1));
+            }
+        }
+    }
+}
+
+/// What `measure` was asked for.
+#[derive(Debug, Clone)]
+pub struct Settings {
+    /// Longest horizon measured.
+    pub horizons: usize,
+    /// Longest horizon asked for.
+    pub horizons_requested: usize,
+    /// Fewest assets with both values for a date to count.
+    pub min_assets: usize,
+    /// Returns over the period ending at each row's date.
+    pub backward: bool,
+    /// `(resamples, seed)` of the stationary bootstrap.
+    pub bootstrap: (usize, u64),
+}
+
+/// Counts of each rule's choices over the bootstrap resamples.
+fn tally(resampled: &[[Option<usize>; 3]], i: usize, l: usize) -> Vec<u64> {
+    let mut c = vec![0u64; l];
+    resampled.iter().filter_map(|ch| ch[i]).for_each(|h| c[h - 1] += 1);
+    c
+}
+
+/// The 5 % and 95 % points of the chosen horizons (inverse empirical distribution).
+fn range_90(resampled: &[[Option<usize>; 3]], i: usize) -> Option<[usize; 2]> {
+    let mut v: Vec<usize> = resampled.iter().filter_map(|ch| ch[i]).collect();
+    v.sort_unstable();
+    let q = |p: f64| v[((p * v.len() as f64).ceil() as usize).clamp(1, v.len()) - 1];
+    (!v.is_empty()).then(|| [q(0.05), q(0.95)])
+}
+
+/// Every figure of a read panel, and the fitted decay curve (`None` when the
+/// lagged ICs cannot be fitted).
+///
+/// # Errors
+/// A message naming the file, why nothing can be measured and the fix, when
+/// no date is usable.
 pub fn measure(
     read: &crate::reader::ReadPanel,
     file: &Path,
-    l: usize,
-    min_assets: usize,
-    backward: bool,
-    boot: (usize, u64),
-) -> (MeasureResult, fit::Fit) {
-    let p = &read.panel;
-    let mut m = Measurement::new(l, true).with_min_assets(min_assets);
+    s: &Settings,
+) -> Result<(MeasureResult, Option<fit::Fit>), String> {
+    let (p, l, min) = (&read.panel, s.horizons, s.min_assets);
+    let mut m = Measurement::new(l, true).with_min_assets(min);
     m.update(p);
-    let (lag_mean, lag_se) = m.lagged.means_and_se(false);
-    let (hor_mean, hor_se) = m.horizon.means_and_se(true);
-    let (rank_mean, rank_se) = m.rank_lagged.means_and_se(false);
-    let choices = choose(&lag_mean, &lag_se, &hor_mean);
-    let best = fit::best_fit(&lag_mean, &lag_se);
     let used = m.lagged.series(1).len();
-    let (agree, total) = sign::sign_agreement(p, 1);
+    if used == 0 {
+        return Err(format!("{}: {}", file.display(), extras::why_unmeasurable(p, min)));
+    }
+    let lagged_ic = Curve::from_per_date(&m.lagged, false);
+    let horizon_ic = Curve::from_per_date(&m.horizon, true);
+    let rank_ic = Curve::from_per_date(&m.rank_lagged, false);
+    // The rules and the fit use the study's Newey–West errors as weights, as on simulated panels.
+    let (lag_mean, lag_se) = m.lagged.means_and_se(false);
+    let hor_mean = horizon_ic.means_or_nan();
+    let chosen = choose_measured(&lag_mean, &lag_se, &hor_mean);
+    let all_finite = lag_mean.iter().all(|x| x.is_finite()) && lag_se.iter().all(|x| x.is_some_and(f64::is_finite));
+    let best = all_finite.then(|| fit::best_fit(&lag_mean, &lag_se)).filter(|f| {
+        f.curve.iter().all(|x| x.is_finite()) && f.amplitude.is_finite() && f.shape1.is_finite() && f.shape2.is_finite()
+    });
     let m_dates = p.dates - 1;
     let block = (l as f64).max((m_dates as f64).cbrt()).min(m_dates as f64 / 2.0).max(1.0);
-    let resampled = bootstrap::choices(&m.lagged, &m.horizon, &lag_se, m_dates, block, boot.0, boot.1);
-    let tally = |i: usize| {
-        let mut c = vec![0u64; l];
-        resampled.iter().for_each(|ch| c[ch.horizon[i] - 1] += 1);
-        c
-    };
-    let range = |i: usize| {
-        let mut v: Vec<f64> = resampled.iter().map(|ch| ch.horizon[i] as f64).collect();
-        v.sort_by(f64::total_cmp);
-        [quantile_sorted(&v, 0.05), quantile_sorted(&v, 0.95)]
-    };
-    let counts = BootCounts { peak: tally(0), formula: tally(1), fitted: tally(2) };
-    let share = |c: &[u64], n: usize| c[n - 1] as f64 / boot.0 as f64;
-    let shares = [
-        share(&counts.peak, choices.horizon[0]),
-        share(&counts.formula, choices.horizon[1]),
-        share(&counts.fitted, choices.horizon[2]),
-    ];
+    let (reps, seed) = s.bootstrap;
+    let resampled = bootstrap::choices(&m.lagged, &m.horizon, &lag_se, m_dates, block, reps, seed);
+    let counts =
+        BootCounts { peak: tally(&resampled, 0, l), formula: tally(&resampled, 1, l), fitted: tally(&resampled, 2, l) };
+    let per_rule = [&counts.peak, &counts.formula, &counts.fitted];
+    let shares: [Option<f64>; 3] = std::array::from_fn(|i| chosen[i].map(|h| per_rule[i][h - 1] as f64 / reps as f64));
     let bootstrap = Bootstrap {
-        replicates: boot.0,
+        replicates: reps,
         mean_block_length: block,
         share_at_estimate: shares,
-        share_at_estimate_se: shares.map(|p| (p * (1.0 - p) / boot.0 as f64).sqrt()),
-        range_90: [range(0), range(1), range(2)],
+        share_at_estimate_se: shares.map(|p| p.map(|p| (p * (1.0 - p) / reps as f64).sqrt())),
+        range_90: std::array::from_fn(|i| range_90(&resampled, i)),
         choice_counts: counts,
+    };
+    let (agree, total) = sign::sign_agreement(p, 1, min);
+    let ic1 = lagged_ic.mean[0];
+    let binary = extras::two_valued(p);
+    let sheppard = ic1.map(|ic| 0.5 + ic.clamp(-1.0, 1.0).asin() / std::f64::consts::PI);
+    let grinold_kahn = ic1.filter(|_| binary).map(|ic| (1.0 + ic) / 2.0);
+    let success_ratio = SuccessRatio {
+        implied: if binary { grinold_kahn } else { sheppard },
+        relation: if binary { "binary" } else { "sheppard" }.into(),
+        sheppard,
+        binary: grinold_kahn,
+        observed: (total > 0).then(|| agree as f64 / total as f64),
+        pairs: total,
+    };
+    let mut warnings = read.warnings.clone();
+    let timing = timing_check(p, &m, min, s.backward, &mut warnings);
+    let (fitted_family, fitted_shape, fitted_curve) = match &best {
+        Some(f) => (f.family.name().to_string(), finite(f.shape1), f.curve.clone()),
+        None => ("none".to_string(), None, Vec::new()),
     };
     let result = MeasureResult {
         file: file.display().to_string(),
         rows: read.rows,
         dates: p.dates,
         assets: p.assets,
+        horizons_requested: s.horizons_requested,
+        horizons: l,
+        frequency: read.frequency.name().into(),
+        missing_periods: read.missing_periods.clone(),
         dates_used: used,
         dates_skipped: p.dates - used,
-        return_timing: if backward {
+        return_timing: if s.backward {
             "over the period ending at each row's date".into()
         } else {
             "over the period starting at each row's date".into()
         },
-        success_ratio: (1.0 + lag_mean[0]) / 2.0,
-        sign_hit_rate: agree as f64 / total.max(1) as f64,
-        forecast_autocorrelation: extras::forecast_autocorrelation(p),
-        ic_volatility: extras::ic_volatility(p),
-        fitted_family: best.family.name().into(),
-        fitted_shape: best.shape1,
-        fitted_curve: best.curve.clone(),
-        best_horizon: BestHorizon { peak: choices.horizon[0], formula: choices.horizon[1], fitted: choices.horizon[2] },
-        lagged_ic: Curve::new(lag_mean, lag_se),
-        rank_ic: Curve::new(rank_mean, rank_se),
-        horizon_ic: Curve::new(hor_mean, hor_se),
-        se_method: "Newey-West (Bartlett) with max(2n, Andrews AR(1) plug-in) lags; lagged ICs use n = 1".into(),
+        success_ratio,
+        timing,
+        forecast_autocorrelation: extras::forecast_autocorrelation(p, min).and_then(finite),
+        ic_volatility: extras::ic_volatility(p, min).and_then(finite),
+        fitted_family,
+        fitted_shape,
+        fitted_curve,
+        best_horizon: BestHorizon { peak: chosen[0], formula: chosen[1], fitted: chosen[2] },
+        lagged_ic,
+        rank_ic,
+        horizon_ic,
+        se_method: SE_METHOD.into(),
         bootstrap,
+        se_disagreements: Vec::new(),
         calibrated_study: None,
-        warnings: read.warnings.clone(),
+        warnings,
     };
-    (result, best)
+    Ok((result, best))
+}
+
+/// How the reported standard errors and intervals are made.
+pub const SE_METHOD: &str = "equal-weighted cosine (EWC) long-run variance with Student-t critical values \
+    (Müller 2004; Lazarus, Lewis, Stock and Watson 2018); degrees of freedom min(0.4·m^(2/3), m/(4n), an AR(1) \
+    bound), at least 2";
+
+/// The return-timing check: the lag-0 IC (the return over the period ending
+/// at the forecast's date) beside lags 1 and 2, and a warning when the curve
+/// looks shifted by one period. Forward returns: the lag-1 IC is below the
+/// lag-2 IC by more than its 95 % interval and the curve falls after lag 2 (a
+/// backward return read as forward moves every lag up by one). Backward
+/// returns: the lag-0 IC is positive and above the lag-1 IC by more than its
+/// 95 % interval (a forward return read as backward moves every lag down).
+fn timing_check(p: &Panel, m: &Measurement, min: usize, backward: bool, warnings: &mut Vec<String>) -> TimingCheck {
+    let lag0 = extras::lag0_ics(p, min);
+    let lag0_iv = lag0.intervals(false)[0];
+    let mean = |k: usize| {
+        let s = m.lagged.series(k);
+        (!s.is_empty()).then(|| s.iter().sum::<f64>() / s.len() as f64)
+    };
+    // Per-date differences a(t) − b(t + shift) over dates present in both.
+    let diff = |a: (&[f64], &[u32]), b: (&[f64], &[u32]), shift: u32| -> Option<crate::measure::ewc::Interval> {
+        let bmap: std::collections::HashMap<u32, f64> = b.1.iter().zip(b.0).map(|(d, v)| (*d, *v)).collect();
+        let d: Vec<f64> = a.1.iter().zip(a.0).filter_map(|(t, v)| bmap.get(&(t + shift)).map(|w| v - w)).collect();
+        crate::measure::ewc::interval(&d, 1)
+    };
+    let mut looks_shifted = false;
+    if !backward && m.horizons() >= 2 {
+        let (m1, m2) = (mean(1), mean(2));
+        let falls = m.horizons() < 3 || mean(3).zip(m2).is_some_and(|(m3, m2)| m2 >= m3);
+        let gap = diff((m.lagged.series(1), m.lagged.dates(1)), (m.lagged.series(2), m.lagged.dates(2)), 0);
+        if let (Some(g), Some(m1), Some(m2)) = (gap, m1, m2)
+            && g.high() < 0.0
+            && falls
+        {
+            looks_shifted = true;
+            warnings.push(format!(
+                "the lag-1 IC ({m1:.4}) is below the lag-2 IC ({m2:.4}) by more than its 95% interval and the \
+                     curve falls after lag 2: if each row's return is over the period ending at its date, pass \
+                     --backward-returns (a signal whose IC truly peaks at lag 2 looks the same)"
+            ));
+        }
+    }
+    if backward {
+        // lag-0 date index t is the forecast at date t + 1.
+        let gap = diff((lag0.series(1), lag0.dates(1)), (m.lagged.series(1), m.lagged.dates(1)), 1);
+        if let (Some(g), Some(l0), Some(m1)) = (gap, lag0_iv, mean(1))
+            && g.low() > 0.0
+            && l0.mean > 0.0
+        {
+            looks_shifted = true;
+            warnings.push(format!(
+                "the return on each row's own period (lag 0, IC {:.4}) predicts better than the next period's \
+                     (lag 1, IC {m1:.4}) by more than its 95% interval: if each row's return is over the period \
+                     starting at its date, drop --backward-returns (a signal built from the latest period's return \
+                     can also show this)",
+                l0.mean
+            ));
+        }
+    }
+    TimingCheck {
+        lag0_ic: lag0_iv.and_then(|i| finite(i.mean)),
+        lag0_se: lag0_iv.and_then(|i| finite(i.se)),
+        looks_shifted,
+    }
 }

@@ -6,7 +6,7 @@
 //! the resampled means.
 
 use super::PerDate;
-use super::rules::{self, Choices};
+use super::rules;
 use crate::rng::path_rng;
 use rand::RngExt;
 
@@ -39,7 +39,8 @@ fn weighted_means(p: &PerDate, counts: &[u32]) -> Vec<f64> {
 }
 
 /// The rules' choices on `replicates` resamples of the `m` dates with a
-/// forward return. `lagged_se` (from the full sample) weights the fits.
+/// forward return (`None` where a resample leaves a rule's curve
+/// unmeasurable). `lagged_se` (from the full sample) weights the fits.
 pub fn choices(
     lagged: &PerDate,
     horizon: &PerDate,
@@ -48,12 +49,12 @@ pub fn choices(
     block: f64,
     replicates: usize,
     seed: u64,
-) -> Vec<Choices> {
+) -> Vec<[Option<usize>; 3]> {
     let mut counts = Vec::new();
     (0..replicates as u64)
         .map(|b| {
             resample_counts(m, block, seed, b, &mut counts);
-            rules::choose(&weighted_means(lagged, &counts), lagged_se, &weighted_means(horizon, &counts))
+            rules::choose_measured(&weighted_means(lagged, &counts), lagged_se, &weighted_means(horizon, &counts))
         })
         .collect()
 }

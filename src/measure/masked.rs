@@ -4,15 +4,24 @@
 //! with a forecast and all `n` returns. Direct loops, `O(T·L·N)`: the dense
 //! path's matrix products cannot skip a different set of assets per pair.
 //! Pearson's correlation is unchanged by shifting either variable by a
-//! constant, so each row is centred on its observed mean first, for accuracy.
+//! constant or scaling it, so each row is centred on its observed mean first,
+//! for accuracy, and multiplied by a power of two (exact) so that no sum of
+//! squares overflows or underflows: forecasts and lagged returns by their own
+//! row's, the returns summed over a horizon by one common power.
 
 use super::PerDate;
+use super::sums::pow2_scale;
 
 /// Pearson correlation from the sums of `n` pairs (`None` without variance).
 pub(crate) fn pearson(n: f64, sx: f64, sy: f64, sxx: f64, syy: f64, sxy: f64) -> f64 {
     let cov = sxy - sx * sy / n;
     let (vx, vy) = (sxx - sx * sx / n, syy - sy * sy / n);
     cov / (vx * vy).sqrt()
+}
+
+/// Largest finite magnitude of a row after subtracting `centre`.
+pub(crate) fn max_abs_about(row: &[f64], centre: f64) -> f64 {
+    row.iter().filter(|x| x.is_finite()).fold(0.0, |m, x| (x - centre).abs().max(m))
 }
 
 /// Mean of the finite values of a row (0 when none).
@@ -35,11 +44,14 @@ pub fn lagged_and_horizon(
 ) {
     let rows = returns.len() / n;
     let r_mean: Vec<f64> = returns.chunks_exact(n).map(observed_mean).collect();
+    let r_own: Vec<f64> = returns.chunks_exact(n).zip(&r_mean).map(|(r, m)| pow2_scale(max_abs_about(r, *m))).collect();
+    let common = pow2_scale(returns.chunks_exact(n).zip(&r_mean).fold(0.0, |a, (r, m)| max_abs_about(r, *m).max(a)));
     let mut cum = vec![0.0; n];
     let mut alive = vec![false; n];
     for t in 0..rows {
         let f = &forecasts[t * n..(t + 1) * n];
         let f_mean = observed_mean(f);
+        let f_scale = pow2_scale(max_abs_about(f, f_mean));
         for (i, a) in alive.iter_mut().enumerate() {
             *a = f[i].is_finite();
             cum[i] = 0.0;
@@ -50,14 +62,15 @@ pub fn lagged_and_horizon(
             let mut lag = [0.0f64; 6];
             let mut hor = [0.0f64; 6];
             for i in 0..n {
-                let x = f[i] - f_mean;
-                let y = r[i] - r_mean[s];
+                let x = (f[i] - f_mean) * f_scale;
+                let d = r[i] - r_mean[s];
                 if f[i].is_finite() && r[i].is_finite() {
+                    let y = d * r_own[s];
                     lag = [lag[0] + 1.0, lag[1] + x, lag[2] + y, lag[3] + x * x, lag[4] + y * y, lag[5] + x * y];
                 }
                 if alive[i] {
                     if r[i].is_finite() {
-                        cum[i] += y;
+                        cum[i] += d * common;
                         let c = cum[i];
                         hor = [hor[0] + 1.0, hor[1] + x, hor[2] + c, hor[3] + x * x, hor[4] + c * c, hor[5] + x * c];
                     } else {
@@ -66,7 +79,7 @@ pub fn lagged_and_horizon(
                 }
             }
             for (sums, out) in [(lag, &mut *lagged), (hor, &mut *horizon)] {
-                if sums[0] >= min_assets.max(3) as f64 {
+                if sums[0] >= min_assets as f64 {
                     out.push(k, t, pearson(sums[0], sums[1], sums[2], sums[3], sums[4], sums[5]));
                 }
             }
@@ -91,7 +104,7 @@ pub fn rank_lagged(forecasts: &[f64], returns: &[f64], n: usize, l: usize, min_a
                     y.push(*b);
                 }
             }
-            if x.len() < min_assets.max(3) {
+            if x.len() < min_assets {
                 continue;
             }
             super::rank::rank_in_place(&mut x, &mut order);

@@ -131,19 +131,28 @@ pub struct Measurement {
     /// Lagged rank ICs (empty unless asked for).
     pub rank_lagged: PerDate,
     fdm: Vec<f64>,
+    /// Demeaned returns times `ret_scale`.
+    rdm: Vec<f64>,
+    /// The power of two the demeaned returns were multiplied by.
+    ret_scale: f64,
+    /// Per return row: `Σ (r̃·2^{−e})²` with the row's own power of two `2^{−e}`, and that power.
+    row_ss: Vec<(f64, f64)>,
     rank_f: Vec<f64>,
     rank_r: Vec<f64>,
     cross: Vec<f64>,
     gram: Vec<f64>,
-    row_mean: Vec<f64>,
     tmp: Vec<f64>,
     order: Vec<usize>,
 }
 
-/// Writes `src` minus its mean into `dst`.
-fn demean_into(src: &[f64], dst: &mut [f64]) {
+/// Writes `src` minus its mean into `dst`, scaled by a power of two so that
+/// the largest magnitude lies in `[0.5, 1)`: exact, and the sums of squares
+/// that follow can neither overflow nor underflow whatever the data's units.
+fn standardise_into(src: &[f64], dst: &mut [f64]) {
     let mean = sums::sum(src) / src.len() as f64;
     dst.iter_mut().zip(src).for_each(|(d, s)| *d = s - mean);
+    let scale = sums::pow2_scale(dst.iter().fold(0.0, |m, x| x.abs().max(m)));
+    dst.iter_mut().for_each(|d| *d *= scale);
 }
 
 impl Measurement {
@@ -152,8 +161,9 @@ impl Measurement {
         Self { horizons, with_rank, min_assets: 3, ..Self::default() }
     }
 
-    /// Pairs of dates with fewer common assets than this give no IC (panels
-    /// with missing values only; at least 3).
+    /// Pairs of dates with fewer common assets than this give no IC, on
+    /// complete and incomplete panels alike. At least 3 (a correlation of two
+    /// points is ±1); smaller values are raised to 3, so callers refuse them first.
     pub fn with_min_assets(mut self, min_assets: usize) -> Self {
         self.min_assets = min_assets.max(3);
         self
@@ -167,11 +177,12 @@ impl Measurement {
     /// `⟨f̃_t, r_{t+k−1}⟩` of the last update: the demeaned forecasts at date
     /// `t` against the returns `k` periods later (`t + k ≤ dates − 1`).
     pub fn lagged_cov(&self, t: usize, k: usize) -> f64 {
-        self.cross[t * self.horizons + k - 1]
+        self.cross[t * self.horizons + k - 1] / self.ret_scale
     }
 
     /// The demeaned forecasts of the last update at dates `0..dates − 1`
-    /// (row-major; the last date, which has no return, is left out).
+    /// (row-major; the last date, which has no return, is left out), each
+    /// date's row multiplied by its own power of two.
     pub fn demeaned_forecasts(&self) -> &[f64] {
         &self.fdm
     }
@@ -196,33 +207,50 @@ impl Measurement {
             }
             return;
         }
+        if n < self.min_assets {
+            // Every date has the same `n` assets: none is usable.
+            self.lagged.reset(l, t);
+            self.horizon.reset(l, t);
+            self.rank_lagged.reset(l, t);
+            self.cross.clear();
+            self.cross.resize((t - 1) * l, 0.0);
+            self.ret_scale = 1.0;
+            return;
+        }
         self.pearson_and_horizon(panel, n, t);
         if self.with_rank {
             self.rank(panel, n, t);
         }
     }
 
-    /// Pearson lagged and horizon ICs. Forecasts are demeaned; returns are
-    /// used as they are, since `⟨f̃, r⟩ = ⟨f̃, r̃⟩`, and the return Gram products
-    /// are centred afterwards, `⟨r̃_s, r̃_u⟩ = ⟨r_s, r_u⟩ − N·r̄_s·r̄_u` (exact up
-    /// to rounding while cross-sectional mean returns are not many times their
-    /// spread, as for residual returns; it saves a copy of the returns).
+    /// Pearson lagged and horizon ICs, scale-free: each forecast row is
+    /// demeaned and multiplied by its own power of two, the returns are
+    /// demeaned per row and multiplied by one common power of two (horizon
+    /// sums add rows, so they must share a scale), and each lagged IC divides
+    /// by its return row's norm computed at that row's own power of two. All
+    /// scalings are exact, so nothing overflows or underflows for data in any
+    /// units (tested at 1e±200) and results equal the unscaled arithmetic.
     fn pearson_and_horizon(&mut self, panel: &Panel, n: usize, t: usize) {
         let l = self.horizons;
-        let returns = &panel.returns;
         self.fdm.resize((t - 1) * n, 0.0);
         for (date, f_out) in self.fdm.chunks_exact_mut(n).enumerate() {
-            demean_into(panel.forecast_row(date), f_out);
+            standardise_into(panel.forecast_row(date), f_out);
         }
-        banded_products(&self.fdm, returns, n, l, &mut self.tmp, &mut self.cross);
-        banded_products(returns, returns, n, l, &mut self.tmp, &mut self.gram);
-        self.row_mean.clear();
-        self.row_mean.extend(returns.chunks_exact(n).map(|r| sums::sum(r) / n as f64));
-        for (s, row) in self.gram.chunks_exact_mut(l).enumerate() {
-            for (d, g) in row.iter_mut().enumerate().take(t - 1 - s) {
-                *g -= n as f64 * self.row_mean[s] * self.row_mean[s + d];
-            }
+        self.rdm.resize(panel.returns.len(), 0.0);
+        for (src, dst) in panel.returns.chunks_exact(n).zip(self.rdm.chunks_exact_mut(n)) {
+            let mean = sums::sum(src) / n as f64;
+            dst.iter_mut().zip(src).for_each(|(d, s)| *d = s - mean);
         }
+        self.ret_scale = sums::pow2_scale(self.rdm.iter().fold(0.0, |m, x| x.abs().max(m)));
+        self.row_ss.clear();
+        for row in self.rdm.chunks_exact(n) {
+            let own = sums::pow2_scale(row.iter().fold(0.0, |m, x| x.abs().max(m)));
+            self.row_ss.push((sums::sum_of(row, |v| (v * own) * (v * own)), own));
+        }
+        let scale = self.ret_scale;
+        self.rdm.iter_mut().for_each(|x| *x *= scale);
+        banded_products(&self.fdm, &self.rdm, n, l, &mut self.tmp, &mut self.cross);
+        banded_products(&self.rdm, &self.rdm, n, l, &mut self.tmp, &mut self.gram);
         self.lagged.reset(l, t);
         self.horizon.reset(l, t);
         let (cross, gram) = (&self.cross, &self.gram);
@@ -233,11 +261,11 @@ impl Measurement {
             for k in 1..=l.min(t - 1 - date) {
                 let r = date + k - 1; // return row of lag k
                 let c = cross[date * l + k - 1];
-                let r_ss = gram[r * l];
+                let (own_ss, own) = self.row_ss[r];
                 cov += c;
                 // ‖Σ_{j<k} r_j‖² grows by ‖r‖² + 2·Σ_{j<k−1} ⟨r_{date+j}, r⟩
-                var += r_ss + 2.0 * (0..k - 1).map(|j| gram[(date + j) * l + (k - 1 - j)]).sum::<f64>();
-                self.lagged.push(k, date, c / (f_ss * r_ss).sqrt());
+                var += gram[r * l] + 2.0 * (0..k - 1).map(|j| gram[(date + j) * l + (k - 1 - j)]).sum::<f64>();
+                self.lagged.push(k, date, c * (own / scale) / (f_ss * own_ss).sqrt());
                 self.horizon.push(k, date, cov / (f_ss * var).sqrt());
             }
         }

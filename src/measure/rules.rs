@@ -73,3 +73,22 @@ pub fn choose(lagged: &[f64], lagged_se: &[Option<f64>], horizon: &[f64]) -> Cho
         family: f.family,
     }
 }
+
+/// The rules' choices on a measured panel, each `None` when its curve is not
+/// measurable: the peak rule needs every mean horizon IC, the formula rule
+/// every mean lagged IC, the fitted rule those and their standard errors (the
+/// fit's weights), and a finite fit.
+pub fn choose_measured(lagged: &[f64], lagged_se: &[Option<f64>], horizon: &[f64]) -> [Option<usize>; 3] {
+    let all_finite = |x: &[f64]| !x.is_empty() && x.iter().all(|v| v.is_finite());
+    let peak = all_finite(horizon).then(|| argmax1(horizon));
+    if !all_finite(lagged) {
+        return [peak, None, None];
+    }
+    let formula = Some(argmax1(&formula_curve(lagged)));
+    let weighted = lagged_se.iter().all(|s| s.is_some_and(|s| s.is_finite() && s > 0.0));
+    let fitted = weighted
+        .then(|| fit::best_fit(lagged, lagged_se))
+        .filter(|f| all_finite(&f.curve))
+        .map(|f| argmax1(&formula_curve(&f.curve)));
+    [peak, formula, fitted]
+}

@@ -27,6 +27,18 @@ pub fn sum_of(x: &[f64], g: impl Fn(f64) -> f64) -> f64 {
     finish(acc) + rest.iter().map(|&v| g(v)).sum::<f64>()
 }
 
+/// The power of two `2^{−e}` that brings a largest magnitude `max_abs` into
+/// `[0.5, 1)`; 1 when it is zero or not finite. Multiplying by it is exact.
+pub fn pow2_scale(max_abs: f64) -> f64 {
+    if max_abs == 0.0 || !max_abs.is_finite() {
+        return 1.0;
+    }
+    // The exponent of max_abs from its bits (subnormals: treat as the smallest normal).
+    let e = ((max_abs.to_bits() >> 52) & 0x7ff) as i32 - 1022;
+    let e = e.clamp(-1000, 1000);
+    (-e as f64).exp2()
+}
+
 fn finish(a: [f64; 8]) -> f64 {
     ((a[0] + a[4]) + (a[1] + a[5])) + ((a[2] + a[6]) + (a[3] + a[7]))
 }

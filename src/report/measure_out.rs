@@ -2,37 +2,84 @@
 
 use super::records::document;
 use super::summary::CAUTION;
+use crate::measure::PerDate;
 use serde::Serialize;
 use std::fmt::Write;
 
-/// Means per lag (or horizon) with standard errors and t-statistics.
-#[derive(Debug, Clone, Serialize)]
+/// A finite value, or `None`: no NaN or infinity reaches an output.
+pub fn finite(x: f64) -> Option<f64> {
+    x.is_finite().then_some(x)
+}
+
+/// Means per lag (or horizon) with standard errors, 95 % intervals and
+/// t-statistics; `None` wherever a figure is not measurable.
+#[derive(Debug, Clone, Default, Serialize)]
 pub struct Curve {
     /// Mean over dates, index 0 = lag or horizon 1.
-    pub mean: Vec<f64>,
-    /// Overlap-aware standard error.
+    pub mean: Vec<Option<f64>>,
+    /// Standard error of the mean (EWC, see `se_method`).
     pub se: Vec<Option<f64>>,
-    /// `mean / se`.
+    /// Degrees of freedom of the Student-t critical value.
+    pub df: Vec<Option<usize>>,
+    /// Lower end of the 95 % interval.
+    pub ci_low: Vec<Option<f64>>,
+    /// Upper end of the 95 % interval.
+    pub ci_high: Vec<Option<f64>>,
+    /// `mean / se` (compare with Student's t on `df` degrees of freedom).
     pub t: Vec<Option<f64>>,
+    /// Dates behind each mean.
+    pub dates: Vec<usize>,
+    /// Spread of the mean across histories simulated from `calibrated.toml`
+    /// (a parametric bootstrap; empty without the calibrated study).
+    pub se_simulated: Vec<Option<f64>>,
 }
 
 impl Curve {
-    /// From means and standard errors.
-    pub fn new(mean: Vec<f64>, se: Vec<Option<f64>>) -> Self {
-        let t = mean.iter().zip(&se).map(|(m, s)| s.filter(|s| *s > 0.0).map(|s| m / s)).collect();
-        Self { mean, se, t }
+    /// From per-date values (`overlap`: horizon ICs, whose overlap sets the
+    /// degrees of freedom).
+    pub fn from_per_date(p: &PerDate, overlap: bool) -> Self {
+        let mut c = Curve::default();
+        for (k, iv) in (1..=p.len()).zip(p.intervals(overlap)) {
+            let s = p.series(k);
+            c.mean.push(if s.is_empty() { None } else { finite(s.iter().sum::<f64>() / s.len() as f64) });
+            c.se.push(iv.and_then(|i| finite(i.se)));
+            c.df.push(iv.map(|i| i.df));
+            c.ci_low.push(iv.and_then(|i| finite(i.low())));
+            c.ci_high.push(iv.and_then(|i| finite(i.high())));
+            c.t.push(iv.and_then(|i| (i.se > 0.0).then(|| finite(i.mean / i.se)).flatten()));
+            c.dates.push(s.len());
+        }
+        c
+    }
+
+    /// Half the 95 % interval at index `i`.
+    pub fn half_width(&self, i: usize) -> Option<f64> {
+        Some((self.ci_high[i]? - self.ci_low[i]?) / 2.0)
+    }
+
+    /// The means with NaN where missing (for the rules, which check finiteness).
+    pub fn means_or_nan(&self) -> Vec<f64> {
+        self.mean.iter().map(|m| m.unwrap_or(f64::NAN)).collect()
     }
 }
 
-/// The chosen horizon per rule (1-based).
+/// The chosen horizon per rule (1-based); `None` when the rule's curve is
+/// not measurable.
 #[derive(Debug, Clone, Serialize)]
 pub struct BestHorizon {
     /// Peak of the measured horizon IC.
-    pub peak: usize,
+    pub peak: Option<usize>,
     /// Peak of `Σ IC_k/√n` from the measured lagged ICs.
-    pub formula: usize,
+    pub formula: Option<usize>,
     /// Optimum of the fitted decay curve.
-    pub fitted: usize,
+    pub fitted: Option<usize>,
+}
+
+impl BestHorizon {
+    /// In rule order (peak, formula, fitted).
+    pub fn as_array(&self) -> [Option<usize>; 3] {
+        [self.peak, self.formula, self.fitted]
+    }
 }
 
 /// The stationary bootstrap of the chosen horizon.
@@ -45,11 +92,12 @@ pub struct Bootstrap {
     /// Per rule, how often each horizon was chosen (index 0 = horizon 1).
     pub choice_counts: BootCounts,
     /// Per rule, the share of resamples that chose the full-sample estimate.
-    pub share_at_estimate: [f64; 3],
+    pub share_at_estimate: [Option<f64>; 3],
     /// Monte Carlo errors of those shares, `sqrt(p(1 − p)/replicates)`.
-    pub share_at_estimate_se: [f64; 3],
-    /// Per rule, the 5 % and 95 % quantiles of the chosen horizon.
-    pub range_90: [[f64; 2]; 3],
+    pub share_at_estimate_se: [Option<f64>; 3],
+    /// Per rule, the 5 % and 95 % quantiles of the chosen horizon (whole
+    /// horizons: the inverse of the empirical distribution).
+    pub range_90: [Option<[usize; 2]>; 3],
 }
 
 /// Choice counts per rule.
@@ -61,6 +109,37 @@ pub struct BootCounts {
     pub formula: Vec<u64>,
     /// Fitted rule.
     pub fitted: Vec<u64>,
+}
+
+/// The success ratio: the share of assets whose forecast and next-period
+/// return (both relative to their cross-sectional means) share a sign.
+#[derive(Debug, Clone, Serialize)]
+pub struct SuccessRatio {
+    /// The relation that applies to this forecast, evaluated at the mean lag-1 IC.
+    pub implied: Option<f64>,
+    /// `sheppard` for continuous forecasts, `binary` for two-valued ones.
+    pub relation: String,
+    /// `1/2 + arcsin(IC)/π`: sign agreement of two jointly normal scores with
+    /// correlation IC (Sheppard, 1899).
+    pub sheppard: Option<f64>,
+    /// `(1 + IC)/2` (Grinold and Kahn, 2000): only when the forecast takes two values.
+    pub binary: Option<f64>,
+    /// The observed share.
+    pub observed: Option<f64>,
+    /// Forecast–return pairs behind `observed`.
+    pub pairs: u64,
+}
+
+/// The return-timing check: the IC with the return over the period that
+/// ends at the forecast's date (lag 0) beside lags 1 and 2.
+#[derive(Debug, Clone, Serialize)]
+pub struct TimingCheck {
+    /// Mean lag-0 IC.
+    pub lag0_ic: Option<f64>,
+    /// Its standard error.
+    pub lag0_se: Option<f64>,
+    /// Whether the curve looks shifted by one period (see `warnings`).
+    pub looks_shifted: bool,
 }
 
 /// How often a history like the user's picks the right horizon, from the
@@ -92,6 +171,14 @@ pub struct MeasureResult {
     pub dates: usize,
     /// Assets seen.
     pub assets: usize,
+    /// Longest horizon asked for (or the default).
+    pub horizons_requested: usize,
+    /// Longest horizon measured (at most a quarter of the history).
+    pub horizons: usize,
+    /// Calendar inferred from the dates: `month-end`, `weekly`, `business-daily` or `rows`.
+    pub frequency: String,
+    /// Periods with no row at all, inserted as empty dates (ISO dates).
+    pub missing_periods: Vec<String>,
     /// Dates with a lag-1 IC (enough assets with both values).
     pub dates_used: usize,
     /// Dates without (too few assets, or no forward return).
@@ -106,10 +193,10 @@ pub struct MeasureResult {
     pub horizon_ic: Curve,
     /// Standard-error method.
     pub se_method: String,
-    /// Success ratio implied by the lag-1 IC, `(1 + IC)/2` (Grinold and Kahn).
-    pub success_ratio: f64,
-    /// Observed share of assets whose demeaned forecast and next return share a sign.
-    pub sign_hit_rate: f64,
+    /// Success ratio: implied by the lag-1 IC and observed.
+    pub success_ratio: SuccessRatio,
+    /// The return-timing check.
+    pub timing: TimingCheck,
     /// Mean cross-sectional correlation of the forecast with its previous value.
     pub forecast_autocorrelation: Option<f64>,
     /// Standard deviation of the lag-1 IC beyond sampling noise.
@@ -117,13 +204,16 @@ pub struct MeasureResult {
     /// Fitted decay family, chosen by AIC.
     pub fitted_family: String,
     /// Its half-life (exponential), exponent (power), zero lag (linear) or peak lag (hump).
-    pub fitted_shape: f64,
-    /// The fitted curve, lag 1 first.
+    pub fitted_shape: Option<f64>,
+    /// The fitted curve, lag 1 first (empty when no fit could be made).
     pub fitted_curve: Vec<f64>,
     /// The estimated optimal horizon under each rule.
     pub best_horizon: BestHorizon,
     /// The stationary bootstrap of the chosen horizon (Politis and Romano, 1994).
     pub bootstrap: Bootstrap,
+    /// Standard errors that disagree with the simulated spread by more than a
+    /// quarter: `(curve, lag or horizon)` pairs.
+    pub se_disagreements: Vec<(String, usize)>,
     /// The study run on the calibrated scenario (`calibrated.toml`), when run.
     pub calibrated_study: Option<CalibratedStudy>,
     /// What the reader noticed.
@@ -135,120 +225,166 @@ pub fn measure_json(m: &MeasureResult) -> Vec<u8> {
     document::<(), _>(None, m)
 }
 
-/// `measure_lags.csv`: one row per lag/horizon.
+/// `measure_lags.csv`: one row per lag/horizon; empty fields where a figure
+/// is not measurable.
 pub fn measure_csv(m: &MeasureResult) -> Vec<u8> {
     let mut w = csv::Writer::from_writer(Vec::new());
-    w.write_record([
-        "n",
-        "ic_mean",
-        "ic_se",
-        "ic_t",
-        "rank_ic_mean",
-        "rank_ic_se",
-        "horizon_ic_mean",
-        "horizon_ic_se",
-        "horizon_ic_t",
-        "fitted_ic",
-    ])
-    .expect("in-memory CSV");
+    let mut header = vec!["n".to_string()];
+    for c in ["ic", "rank_ic", "horizon_ic"] {
+        for f in ["mean", "se", "df", "ci_low", "ci_high", "dates"] {
+            header.push(format!("{c}_{f}"));
+        }
+    }
+    header.push("fitted_ic".into());
+    w.write_record(&header).expect("in-memory CSV");
     let o = |x: Option<f64>| x.map(|v| format!("{v:.8}")).unwrap_or_default();
     for i in 0..m.lagged_ic.mean.len() {
-        w.write_record([
-            (i + 1).to_string(),
-            format!("{:.8}", m.lagged_ic.mean[i]),
-            o(m.lagged_ic.se[i]),
-            o(m.lagged_ic.t[i]),
-            format!("{:.8}", m.rank_ic.mean[i]),
-            o(m.rank_ic.se[i]),
-            format!("{:.8}", m.horizon_ic.mean[i]),
-            o(m.horizon_ic.se[i]),
-            o(m.horizon_ic.t[i]),
-            format!("{:.8}", m.fitted_curve[i]),
-        ])
-        .expect("in-memory CSV");
+        let mut row = vec![(i + 1).to_string()];
+        for c in [&m.lagged_ic, &m.rank_ic, &m.horizon_ic] {
+            row.extend([
+                o(c.mean[i]),
+                o(c.se[i]),
+                c.df[i].map(|d| d.to_string()).unwrap_or_default(),
+                o(c.ci_low[i]),
+                o(c.ci_high[i]),
+                c.dates[i].to_string(),
+            ]);
+        }
+        row.push(o(m.fitted_curve.get(i).copied().and_then(finite)));
+        w.write_record(&row).expect("in-memory CSV");
     }
     w.into_inner().expect("in-memory CSV")
 }
 
-/// The terminal summary.
+/// `text` wrapped at 78 columns, each line indented by two spaces.
+pub fn paragraph(text: &str) -> String {
+    let lines = crate::chart::wrap_to(text, |l| l.chars().count() <= 76);
+    lines.iter().map(|l| format!("  {l}\n")).collect()
+}
+
+/// Ascending whole numbers as ranges: `1–3, 5, 7–8`.
+pub fn ranges(ns: &[usize]) -> String {
+    let mut parts: Vec<String> = Vec::new();
+    let mut i = 0;
+    while i < ns.len() {
+        let mut j = i;
+        while j + 1 < ns.len() && ns[j + 1] == ns[j] + 1 {
+            j += 1;
+        }
+        parts.push(if j > i { format!("{}–{}", ns[i], ns[j]) } else { ns[i].to_string() });
+        i = j + 1;
+    }
+    parts.join(", ")
+}
+
+/// A rule's choice in words.
+fn choice(x: Option<usize>) -> String {
+    x.map_or("none (not measurable)".into(), |n| n.to_string())
+}
+
+/// The terminal summary (at most 80 columns).
 pub fn measure_terminal(m: &MeasureResult) -> String {
     let mut out = String::new();
     let _ = writeln!(out, "lagfold measure · {}", m.file);
-    let _ = writeln!(
-        out,
-        "  {} rows, {} dates ({} used, {} skipped), {} assets; returns taken as {}",
-        m.rows, m.dates, m.dates_used, m.dates_skipped, m.assets, m.return_timing
-    );
+    let missing = if m.missing_periods.is_empty() {
+        String::new()
+    } else {
+        format!(", {} missing period(s) left empty", m.missing_periods.len())
+    };
+    out.push_str(&paragraph(&format!(
+        "{} rows, {} dates ({} used, {} skipped), {} assets; calendar {}{missing}; returns taken as {}; horizons 1–{}.",
+        m.rows, m.dates, m.dates_used, m.dates_skipped, m.assets, m.frequency, m.return_timing, m.horizons
+    )));
     for w in &m.warnings {
-        let _ = writeln!(out, "  warning: {w}");
+        out.push_str(&paragraph(&format!("warning: {w}")));
     }
     let _ = writeln!(
         out,
-        "\n  {:>4}  {:>9}  {:>8}  {:>6}  {:>9}  {:>10}  {:>8}  {:>6}  {:>9}",
-        "n", "IC", "se", "t", "rank IC", "horizon IC", "se", "t", "fitted IC"
+        "\n  {:>4}  {:>8}  {:>7}  {:>8}  {:>10}  {:>7}  {:>8}",
+        "n", "IC", "± 95%", "rank IC", "horizon IC", "± 95%", "fitted"
     );
-    let f = |x: Option<f64>, p: usize| x.map_or("—".to_string(), |v| format!("{v:.p$}"));
+    let f = |x: Option<f64>| x.map_or("—".to_string(), |v| format!("{v:.4}"));
     for i in 0..m.lagged_ic.mean.len() {
         let _ = writeln!(
             out,
-            "  {:>4}  {:>9.4}  {:>8}  {:>6}  {:>9.4}  {:>10.4}  {:>8}  {:>6}  {:>9.4}",
+            "  {:>4}  {:>8}  {:>7}  {:>8}  {:>10}  {:>7}  {:>8}",
             i + 1,
-            m.lagged_ic.mean[i],
-            f(m.lagged_ic.se[i], 4),
-            f(m.lagged_ic.t[i], 1),
-            m.rank_ic.mean[i],
-            m.horizon_ic.mean[i],
-            f(m.horizon_ic.se[i], 4),
-            f(m.horizon_ic.t[i], 1),
-            m.fitted_curve[i]
+            f(m.lagged_ic.mean[i]),
+            f(m.lagged_ic.half_width(i)),
+            f(m.rank_ic.mean[i]),
+            f(m.horizon_ic.mean[i]),
+            f(m.horizon_ic.half_width(i)),
+            f(m.fitted_curve.get(i).copied().and_then(finite)),
         );
     }
+    out.push_str(&paragraph(&format!("± 95%: half the 95% interval ({}).", m.se_method)));
+    out.push('\n');
     let b = &m.best_horizon;
-    let _ = writeln!(
-        out,
-        "\n  Estimated best horizon: {} (peak of horizon IC), {} (Σ IC/√n), {} (fitted {} curve, shape {:.2}).",
-        b.peak, b.formula, b.fitted, m.fitted_family, m.fitted_shape
-    );
+    out.push_str(&paragraph(&format!(
+        "Estimated best horizon: {} (peak of horizon IC), {} (Σ IC/√n), {} (fitted {} curve).",
+        choice(b.peak),
+        choice(b.formula),
+        choice(b.fitted),
+        m.fitted_family
+    )));
     let bs = &m.bootstrap;
-    let _ = writeln!(
-        out,
-        "  Stationary bootstrap ({} resamples of dates, mean block {:.0}): the estimate recurs in {:.0}% / {:.0}% / {:.0}% of resamples; 90% ranges {}–{}, {}–{}, {}–{}.",
-        bs.replicates,
-        bs.mean_block_length,
-        100.0 * bs.share_at_estimate[0],
-        100.0 * bs.share_at_estimate[1],
-        100.0 * bs.share_at_estimate[2],
-        bs.range_90[0][0],
-        bs.range_90[0][1],
-        bs.range_90[1][0],
-        bs.range_90[1][1],
-        bs.range_90[2][0],
-        bs.range_90[2][1]
-    );
-    if let Some(c) = &m.calibrated_study {
-        {
-            let _ = writeln!(
-                out,
-                "  A history like this one ({}; {} simulated, true best horizon {}): the peak rule lands within one period of the truth in {:.0}% ± {:.0} of them and gives up {:.1}% of the best horizon IC on average (formula {:.0}%, fitted {:.0}%).",
-                c.scenario_file,
-                c.paths,
-                c.true_best_horizon,
-                100.0 * c.near_hit_rate[0],
-                100.0 * c.near_hit_rate_se[0],
-                100.0 * c.regret_rel_mean[0],
-                100.0 * c.near_hit_rate[1],
-                100.0 * c.near_hit_rate[2]
-            );
-        }
+    let per_rule: Vec<String> = (0..3)
+        .filter_map(|i| {
+            let share = bs.share_at_estimate[i]?;
+            let [lo, hi] = bs.range_90[i]?;
+            Some(format!("{} in {:.0}% (90% within {lo}–{hi})", ["peak", "formula", "fitted"][i], 100.0 * share))
+        })
+        .collect();
+    if !per_rule.is_empty() {
+        out.push_str(&paragraph(&format!(
+            "Stationary bootstrap ({} resamples of dates, mean block {:.0}): the estimate recurs {}.",
+            bs.replicates,
+            bs.mean_block_length,
+            per_rule.join("; ")
+        )));
     }
-    let _ = writeln!(
-        out,
-        "  Success ratio implied by the lag-1 IC: {:.3}; observed sign hit rate: {:.3}. Forecast autocorrelation {}, IC volatility beyond sampling noise {}.",
-        m.success_ratio,
-        m.sign_hit_rate,
-        f(m.forecast_autocorrelation, 3),
-        f(m.ic_volatility, 4)
-    );
-    let _ = writeln!(out, "\n{CAUTION}");
+    if let Some(c) = &m.calibrated_study {
+        out.push_str(&paragraph(&format!(
+            "A history like this one ({}; {} simulated, true best horizon {}): the peak rule lands within one period \
+             of the truth in {:.0}% ± {:.0} of them and gives up {:.1}% of the best horizon IC on average (formula \
+             {:.0}%, fitted {:.0}%).",
+            c.scenario_file,
+            c.paths,
+            c.true_best_horizon,
+            100.0 * c.near_hit_rate[0],
+            100.0 * c.near_hit_rate_se[0],
+            100.0 * c.regret_rel_mean[0],
+            100.0 * c.near_hit_rate[1],
+            100.0 * c.near_hit_rate[2]
+        )));
+    }
+    if !m.se_disagreements.is_empty() {
+        let at: Vec<String> = ["lagged IC", "horizon IC"]
+            .iter()
+            .filter_map(|curve| {
+                let ns: Vec<usize> = m.se_disagreements.iter().filter(|(c, _)| c == curve).map(|(_, n)| *n).collect();
+                (!ns.is_empty()).then(|| format!("{curve} at {} of {} ({})", ns.len(), m.horizons, ranges(&ns)))
+            })
+            .collect();
+        out.push_str(&paragraph(&format!(
+            "The standard error measured on your dates and the spread across the simulated histories differ by more \
+             than a quarter for the {}. Few degrees of freedom make the measured error itself noisy; a large gap \
+             can also mean the calibrated scenario misses a feature of your data.",
+            at.join(" and the ")
+        )));
+    }
+    let sr = &m.success_ratio;
+    let relation = if sr.relation == "binary" { "(1+IC)/2, two-valued forecast" } else { "1/2 + arcsin(IC)/π" };
+    out.push_str(&paragraph(&format!(
+        "Success ratio implied by the lag-1 IC ({relation}): {}; observed: {}. Lag-0 IC (return over the period \
+         ending at the forecast date): {}. Forecast autocorrelation {}, IC volatility beyond sampling noise {}.",
+        sr.implied.map_or("—".into(), |v| format!("{v:.3}")),
+        sr.observed.map_or("—".into(), |v| format!("{v:.3}")),
+        f(m.timing.lag0_ic),
+        m.forecast_autocorrelation.map_or("—".into(), |v| format!("{v:.3}")),
+        f(m.ic_volatility),
+    )));
+    let _ = writeln!(out);
+    out.push_str(&paragraph(CAUTION));
     out
 }

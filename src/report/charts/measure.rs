@@ -6,18 +6,15 @@ use crate::chart::{Chart, Layer, PALETTE, Panel, XyPanel};
 use crate::measure::rules::Rule;
 use crate::report::{Curve, MeasureResult};
 
-/// Error bars span this many standard errors either side.
-pub const BAR_SES: f64 = 2.0;
-
-/// Points of a curve that have a standard error, with bars of ± [`BAR_SES`].
+/// Points of a curve that have a 95 % interval, with the interval as bars.
 fn with_bars(c: &Curve, label: &str) -> Layer {
-    let pts: Vec<(f64, f64, f64)> =
-        c.mean.iter().zip(&c.se).enumerate().filter_map(|(i, (&m, s))| s.map(|s| ((i + 1) as f64, m, s))).collect();
+    let pts: Vec<(f64, f64, f64, f64)> =
+        (0..c.mean.len()).filter_map(|i| Some(((i + 1) as f64, c.mean[i]?, c.ci_low[i]?, c.ci_high[i]?))).collect();
     Layer::ErrorBars {
         x: pts.iter().map(|p| p.0).collect(),
         y: pts.iter().map(|p| p.1).collect(),
-        lo: pts.iter().map(|p| p.1 - BAR_SES * p.2).collect(),
-        hi: pts.iter().map(|p| p.1 + BAR_SES * p.2).collect(),
+        lo: pts.iter().map(|p| p.2).collect(),
+        hi: pts.iter().map(|p| p.3).collect(),
         colour: PALETTE.blue,
         label: label.into(),
     }
@@ -33,7 +30,7 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
         y_label: "mean lagged IC".into(),
         layers: vec![
             zero.clone(),
-            with_bars(&m.lagged_ic, &format!("measured ± {BAR_SES} s.e.")),
+            with_bars(&m.lagged_ic, "measured, 95% interval"),
             Layer::Line {
                 x: one_based(m.fitted_curve.len().min(l)),
                 y: m.fitted_curve.iter().take(l).copied().collect(),
@@ -47,27 +44,31 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
         ..XyPanel::default()
     });
     let b = &m.best_horizon;
+    let mut horizon_layers = vec![zero, with_bars(&m.horizon_ic, "measured, 95% interval")];
+    if let Some(peak) = b.peak {
+        horizon_layers.push(Layer::VLine {
+            x: peak as f64,
+            colour: PALETTE.vermillion,
+            label: format!("measured peak ({peak})"),
+        });
+    }
     let horizon = Panel::Xy(XyPanel {
         heading: "horizon IC".into(),
         x_label: "horizon (periods)".into(),
         y_label: "mean horizon IC".into(),
-        layers: vec![
-            zero,
-            with_bars(&m.horizon_ic, &format!("measured ± {BAR_SES} s.e.")),
-            Layer::VLine { x: b.peak as f64, colour: PALETTE.vermillion, label: format!("measured peak ({})", b.peak) },
-        ],
+        layers: horizon_layers,
         ..XyPanel::default()
     });
     let bs = &m.bootstrap;
-    let boot_panel = |rule: Rule, counts: &[u64], chosen: usize, i: usize| {
-        Panel::Xy(XyPanel {
+    let boot_panel = |rule: Rule, counts: &[u64], chosen: Option<usize>, i: usize| {
+        let chosen = chosen?;
+        let [lo, hi] = bs.range_90[i]?;
+        Some(Panel::Xy(XyPanel {
             heading: format!(
-                "{}: {} in {:.0}% of resamples, 90% within {}–{}",
+                "{}: {} in {:.0}% of resamples, 90% within {lo}–{hi}",
                 rule_title(rule),
                 chosen,
-                100.0 * bs.share_at_estimate[i],
-                bs.range_90[i][0],
-                bs.range_90[i][1]
+                100.0 * bs.share_at_estimate[i].unwrap_or(0.0),
             ),
             x_label: "chosen horizon (periods)".into(),
             y_label: "share of resamples".into(),
@@ -82,31 +83,35 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
                 },
             ],
             ..XyPanel::default()
-        })
+        }))
     };
-    vec![
-        Chart {
-            name: "measured_ic".into(),
-            title: format!("Your signal's measured decay ({} dates × {} assets)", m.dates_used, m.assets),
-            caption: format!(
-                "Points are the measured means with ± {BAR_SES} standard-error bars (Newey–West, overlap-aware); where \
-                 the bars around the peak overlap, the data cannot tell those horizons apart."
-            ),
-            panels: vec![lagged, horizon],
-            panel_height: 420,
-        },
-        Chart {
+    let boot_panels: Vec<Panel> = [
+        boot_panel(Rule::Peak, &bs.choice_counts.peak, b.peak, 0),
+        boot_panel(Rule::Formula, &bs.choice_counts.formula, b.formula, 1),
+        boot_panel(Rule::Fitted, &bs.choice_counts.fitted, b.fitted, 2),
+    ]
+    .into_iter()
+    .flatten()
+    .collect();
+    let mut charts = vec![Chart {
+        name: "measured_ic".into(),
+        title: format!("Your signal's measured decay ({} dates × {} assets)", m.dates_used, m.assets),
+        caption: "Points are the measured means with their 95% intervals (EWC errors, Student-t critical \
+                      values); where the bars around the peak overlap, the data cannot tell those horizons apart."
+            .into(),
+        panels: vec![lagged, horizon],
+        panel_height: 420,
+    }];
+    if !boot_panels.is_empty() {
+        charts.push(Chart {
             name: "bootstrap".into(),
             title: format!("Chosen horizon over {} stationary-bootstrap resamples of the dates", bs.replicates),
             caption: "How the chosen horizon moves when the dates are resampled: a tall single bar means a stable \
                       choice, a wide spread means the peak is mostly noise."
                 .into(),
-            panels: vec![
-                boot_panel(Rule::Peak, &bs.choice_counts.peak, b.peak, 0),
-                boot_panel(Rule::Formula, &bs.choice_counts.formula, b.formula, 1),
-                boot_panel(Rule::Fitted, &bs.choice_counts.fitted, b.fitted, 2),
-            ],
+            panels: boot_panels,
             panel_height: 260,
-        },
-    ]
+        });
+    }
+    charts
 }

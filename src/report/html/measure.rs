@@ -20,35 +20,42 @@ fn shape_words(family: &str) -> &'static str {
 pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Vec<(String, String, String)>) -> Page {
     let b = &m.best_horizon;
     let bs = &m.bootstrap;
-    let se_or = |p: &str, v: Option<f64>| fig_opt(p, v, Fmt::Num(4), "n/a");
+    let num = |p: &str, v: Option<f64>| fig_opt(p, v, Fmt::Num(4), "not measurable");
+    let horizon = |p: &str, v: Option<usize>| {
+        v.map_or("no horizon (not measurable)".into(), |h| format!("{} periods", int(p, h)))
+    };
     let mut summary = vec![
         format!(
             "lagfold measured {} dates and {} assets of your panel with the estimators its simulations use: the \
-             forecast's average correlation with the next period's return (the lag-1 IC) is {}, with a standard \
-             error of {}.",
+             forecast's average correlation with the next period's return (the lag-1 IC) is {}, with a 95% interval \
+             from {} to {}.",
             int("/dates_used", m.dates_used),
             int("/assets", m.assets),
-            fig("/lagged_ic/mean/0", m.lagged_ic.mean[0], Fmt::Num(4)),
-            se_or("/lagged_ic/se/0", m.lagged_ic.se[0]),
+            num("/lagged_ic/mean/0", m.lagged_ic.mean[0]),
+            num("/lagged_ic/ci_low/0", m.lagged_ic.ci_low[0]),
+            num("/lagged_ic/ci_high/0", m.lagged_ic.ci_high[0]),
         ),
         format!(
-            "The measured horizon IC peaks at {} periods, and the decay curve fitted to the lagged ICs ({}, {} \
-             {}) puts the best horizon at {} periods.",
-            int("/best_horizon/peak", b.peak),
+            "The measured horizon IC peaks at {}, and the decay curve fitted to the lagged ICs ({}{}) puts the best \
+             horizon at {}.",
+            horizon("/best_horizon/peak", b.peak),
             m.fitted_family,
-            shape_words(&m.fitted_family),
-            fig("/fitted_shape", m.fitted_shape, Fmt::Num(2)),
-            int("/best_horizon/fitted", b.fitted),
-        ),
-        format!(
-            "Resampling the dates, the peak rule picks the same {} periods in only {} of resamples, and 90% of its \
-             picks lie between {} and {} periods: that spread is how uncertain the best horizon is.",
-            int("/best_horizon/peak", b.peak),
-            fig("/bootstrap/share_at_estimate/0", bs.share_at_estimate[0], Fmt::Pct(0)),
-            fig("/bootstrap/range_90/0/0", bs.range_90[0][0], Fmt::Num(0)),
-            fig("/bootstrap/range_90/0/1", bs.range_90[0][1], Fmt::Num(0)),
+            m.fitted_shape
+                .map(|v| format!(", {} {}", shape_words(&m.fitted_family), fig("/fitted_shape", v, Fmt::Num(2))))
+                .unwrap_or_default(),
+            horizon("/best_horizon/fitted", b.fitted),
         ),
     ];
+    if let (Some(peak), Some(share), Some([lo, hi])) = (b.peak, bs.share_at_estimate[0], bs.range_90[0]) {
+        summary.push(format!(
+            "Resampling the dates, the peak rule picks the same {} periods in {} of resamples, and 90% of its \
+             picks lie between {} and {} periods: that spread is how uncertain the best horizon is.",
+            int("/best_horizon/peak", peak),
+            fig("/bootstrap/share_at_estimate/0", share, Fmt::Pct(0)),
+            int("/bootstrap/range_90/0/0", lo),
+            int("/bootstrap/range_90/0/1", hi),
+        ));
+    }
     if let Some(c) = &m.calibrated_study {
         summary.push(format!(
             "In {} simulated histories built to resemble yours (calibrated.toml), the peak rule landed within one \
@@ -57,24 +64,26 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
             fig("/calibrated_study/near_hit_rate/0", c.near_hit_rate[0], Fmt::Pct(1)),
         ));
     }
-    let mut errors = vec![
-        ErrRow::new(
-            "lag-1 IC (sampling error, Newey–West)",
-            fig("/lagged_ic/mean/0", m.lagged_ic.mean[0], Fmt::Num(4)),
-            se_or("/lagged_ic/se/0", m.lagged_ic.se[0]),
-        ),
-        ErrRow::new(
-            format!("horizon IC at the measured peak ({})", b.peak),
-            fig(&format!("/horizon_ic/mean/{}", b.peak - 1), m.horizon_ic.mean[b.peak - 1], Fmt::Num(4)),
-            se_or(&format!("/horizon_ic/se/{}", b.peak - 1), m.horizon_ic.se[b.peak - 1]),
-        ),
-    ];
-    for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
+    let mut errors = vec![ErrRow::new(
+        "lag-1 IC (sampling error, EWC)",
+        num("/lagged_ic/mean/0", m.lagged_ic.mean[0]),
+        num("/lagged_ic/se/0", m.lagged_ic.se[0]),
+    )];
+    if let Some(peak) = b.peak {
         errors.push(ErrRow::new(
-            format!("{}: share of resamples choosing the full-data horizon", rule_name(rule)),
-            fig(&format!("/bootstrap/share_at_estimate/{i}"), bs.share_at_estimate[i], Fmt::Pct(1)),
-            fig(&format!("/bootstrap/share_at_estimate_se/{i}"), bs.share_at_estimate_se[i], Fmt::Pct(2)),
+            format!("horizon IC at the measured peak ({peak}; sampling error, EWC)"),
+            num(&format!("/horizon_ic/mean/{}", peak - 1), m.horizon_ic.mean[peak - 1]),
+            num(&format!("/horizon_ic/se/{}", peak - 1), m.horizon_ic.se[peak - 1]),
         ));
+    }
+    for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
+        if let (Some(share), Some(se)) = (bs.share_at_estimate[i], bs.share_at_estimate_se[i]) {
+            errors.push(ErrRow::new(
+                format!("{}: share of resamples choosing the full-data horizon", rule_name(rule)),
+                fig(&format!("/bootstrap/share_at_estimate/{i}"), share, Fmt::Pct(1)),
+                fig(&format!("/bootstrap/share_at_estimate_se/{i}"), se, Fmt::Pct(2)),
+            ));
+        }
     }
     if let Some(c) = &m.calibrated_study {
         for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
@@ -89,8 +98,10 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
         (
             "Estimators".into(),
             "Per-date Pearson and Spearman correlations of the forecast with the return k periods later (lagged IC) \
-             and with the return summed over n periods (horizon IC), averaged over dates; standard errors by Newey \
-             and West (1987) with at least 2n lags, more when Andrews' (1991) plug-in bandwidth asks."
+             and with the return summed over n periods (horizon IC), averaged over dates; standard errors and 95% \
+             intervals by the equal-weighted cosine estimator with Student-t critical values (Müller, 2004; \
+             Lazarus, Lewis, Stock and Watson, 2018), with fewer degrees of freedom for longer horizons and more \
+             persistent series, checked to cover 93–97% over simulated histories."
                 .into(),
         ),
         (
@@ -121,7 +132,7 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
         tables: Vec::new(),
         parameters,
         errors,
-        errors_note: "Figures measured on your data carry sampling error (the Newey–West standard errors); the \
+        errors_note: "Figures measured on your data carry sampling error (the EWC standard errors); the \
                       bootstrap shares and the calibrated study are Monte Carlo averages with binomial standard \
                       errors."
             .into(),
