@@ -41,13 +41,13 @@ fn median(mut v: Vec<f64>) -> f64 {
 }
 
 /// Study cost budget of the calibrated study, in asset × date × horizon
-/// units: about half a minute on two cores (measured: 222 paths of 3,000
+/// units: about 35–40 s on two cores (measured: 222 paths of 3,000
 /// assets × 2,500 dates × 24 horizons; the demo's 2,000 paths are 5.8e9 units
 /// and take about 2 s, so small panels keep the default).
 const STUDY_BUDGET: f64 = 4.0e10;
 
 /// Paths of the calibrated study when `--paths` is not given: 2,000, fewer
-/// for large panels so that the study stays near half a minute (its cost is
+/// for large panels so that the study stays under a minute (its cost is
 /// about linear in assets × dates × horizons), never fewer than 200.
 pub fn default_paths(assets: usize, dates: usize, horizons: usize) -> usize {
     let per_path = (assets.max(1) * dates.max(1) * horizons.max(1)) as f64;

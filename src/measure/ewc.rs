@@ -25,8 +25,8 @@
 //! - the last term keeps the average bias of the lowest `B` spectral
 //!   ordinates of an AR(1) with coefficient `ρ*` near 2 %
 //!   (`ρ*·π²·B²/(3m²(1 − ρ*)²)`): persistent IC regimes need few
-//!   frequencies. `ρ*` is the series' first autocorrelation, or — when that is
-//!   significant (above `2/sqrt(m)`) — the larger of it and `γ₂/γ₁` (an
+//!   frequencies. `ρ*` is the series' first autocorrelation, or — when it and
+//!   the second are both significant (above `2/sqrt(m)`) — the larger of it and `γ₂/γ₁` (an
 //!   AR(1) buried in sampling noise shows its coefficient there, not in the
 //!   diluted first autocorrelation), plus Kendall's (1954) bias correction
 //!   `(1 + 3ρ)/m`, clamped to `[0, 0.97]`.
@@ -98,8 +98,8 @@ fn persistence(x: &[f64], mean: f64) -> f64 {
     if g0 <= 0.0 {
         return 0.0;
     }
-    let rho1 = g1 / g0;
-    let rho = if rho1 > 2.0 / m.sqrt() { rho1.max(g2 / g1) } else { rho1 };
+    let (rho1, rho2, noise) = (g1 / g0, g2 / g0, 2.0 / m.sqrt());
+    let rho = if rho1 > noise && rho2 > noise { rho1.max(g2 / g1) } else { rho1 };
     (rho + (1.0 + 3.0 * rho) / m).clamp(0.0, 0.97)
 }
 
