@@ -28,7 +28,14 @@ pub struct ReadOptions {
     pub backward: bool,
     /// Refuse panels whose matrices would need more bytes than this.
     pub max_bytes: u64,
+    /// Field values that mean "missing" besides the empty field (compared
+    /// without regard to case).
+    pub na: Vec<String>,
 }
+
+/// The default missing-value tokens: what statistical packages, data frames
+/// and databases write for a missing number.
+pub const DEFAULT_NA: [&str; 5] = ["NA", "NaN", "N/A", "null", "-"];
 
 /// Bytes per date × asset cell that measuring a panel may hold at once: the
 /// two matrices read (forecasts and returns), and on a complete panel the
@@ -63,6 +70,7 @@ impl Default for ReadOptions {
             ret: "return".into(),
             backward: false,
             max_bytes: default_max_bytes(),
+            na: DEFAULT_NA.iter().map(|s| s.to_string()).collect(),
         }
     }
 }
@@ -78,20 +86,39 @@ pub enum ReadError {
         /// What the OS or the CSV parser said.
         message: String,
     },
-    /// A required column is absent from the header.
-    #[error("{path}, line 1: no column `{column}` (the header has: {header}); name it with --{flag}")]
-    MissingColumn {
+    /// Required columns are absent from the header (all of them named at once).
+    #[error("{path}, line 1: {missing} (the header has: {header})")]
+    MissingColumns {
         /// The file.
         path: PathBuf,
-        /// The column looked for.
-        column: String,
+        /// Each missing column with the option that renames it, in words.
+        missing: String,
         /// The header as found.
         header: String,
-        /// The option that renames it.
-        flag: &'static str,
+    },
+    /// Date-times at more than one time of day.
+    #[error(
+        "{path}, line {line}: the date-time {value:?} is at {time}, but line {first_line} is at {first}; one row a \
+         period needs one time of day (give dates without times, or all at one time)"
+    )]
+    MixedTimes {
+        /// The file.
+        path: PathBuf,
+        /// 1-based line.
+        line: u64,
+        /// The text found.
+        value: String,
+        /// Its time of day.
+        time: String,
+        /// The first time of day seen.
+        first: String,
+        /// Its line.
+        first_line: u64,
     },
     /// A value that is not a number, or not a finite one.
-    #[error("{path}, line {line}: `{column}` must be a finite number or empty, got {value:?}")]
+    #[error(
+        "{path}, line {line}: `{column}` must be a finite number or a missing-value token ({tokens}), got {value:?}"
+    )]
     BadNumber {
         /// The file.
         path: PathBuf,
@@ -101,9 +128,14 @@ pub enum ReadError {
         column: String,
         /// The text found.
         value: String,
+        /// The missing-value tokens in force, in words.
+        tokens: String,
     },
-    /// A date that is not `YYYY-MM-DD`.
-    #[error("{path}, line {line}: `{column}` must be an ISO 8601 date (YYYY-MM-DD), got {value:?}")]
+    /// A date in none of the accepted forms.
+    #[error(
+        "{path}, line {line}: `{column}` must be a date as YYYY-MM-DD, YYYY/MM/DD, YYYYMMDD or an ISO 8601 \
+         date-time (2001-01-31T16:00:00 or 2001-01-31 16:00:00), got {value:?}"
+    )]
     BadDate {
         /// The file.
         path: PathBuf,
@@ -265,18 +297,43 @@ fn iso(z: i64) -> String {
     format!("{y:04}-{m:02}-{d:02}")
 }
 
-/// Days since 1970-01-01 of a `YYYY-MM-DD` date, if it is one.
-fn parse_date(s: &str) -> Option<i64> {
-    let b = s.as_bytes();
-    if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
-        return None;
-    }
-    let y: i64 = s[0..4].parse().ok()?;
-    let m: u32 = s[5..7].parse().ok()?;
-    let d: u32 = s[8..10].parse().ok()?;
+/// Days since 1970-01-01 of a calendar date, if it is one.
+fn civil(y: i64, m: u32, d: u32) -> Option<i64> {
     let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
     let days_in = [31, if leap { 29 } else { 28 }, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
     ((1..=12).contains(&m) && d >= 1 && d <= days_in[m as usize - 1]).then(|| days_from_civil(y, m, d))
+}
+
+/// A date as `YYYY-MM-DD`, `YYYY/MM/DD`, `YYYYMMDD`, or an ISO 8601 date-time
+/// (`T` or a space before the time, which may carry seconds, fractions and a
+/// zone): the day count since 1970-01-01 and the time text (empty for a date).
+pub fn parse_date(s: &str) -> Option<(i64, &str)> {
+    let digits = |t: &str| !t.is_empty() && t.bytes().all(|b| b.is_ascii_digit());
+    let b = s.as_bytes();
+    let (y, m, d, rest) = if b.len() >= 10 && (b[4] == b'-' || b[4] == b'/') && b[7] == b[4] {
+        if !(digits(&s[0..4]) && digits(&s[5..7]) && digits(&s[8..10])) {
+            return None;
+        }
+        (&s[0..4], &s[5..7], &s[8..10], &s[10..])
+    } else if b.len() == 8 && digits(s) {
+        (&s[0..4], &s[4..6], &s[6..8], "")
+    } else {
+        return None;
+    };
+    let time = match rest.as_bytes().first() {
+        None => "",
+        Some(b'T' | b' ') if b[4] == b'-' => {
+            let t = &rest[1..];
+            let tb = t.as_bytes();
+            let ok = tb.len() >= 5 && digits(&t[0..2]) && tb[2] == b':' && digits(&t[3..5]);
+            if !ok {
+                return None;
+            }
+            t
+        }
+        _ => return None,
+    };
+    Some((civil(y.parse().ok()?, m.parse().ok()?, d.parse().ok()?)?, time))
 }
 
 /// Reads `path` into a panel.
@@ -298,20 +355,35 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     let io = |e: &dyn std::fmt::Display| ReadError::Io { path: path.to_path_buf(), message: e.to_string() };
     let mut rdr = csv::ReaderBuilder::new().trim(csv::Trim::All).from_path(path).map_err(|e| io(&e))?;
     let header = rdr.headers().map_err(|e| io(&e))?.clone();
-    let col = |name: &str, flag: &'static str| {
-        header.iter().position(|h| h == name).ok_or_else(|| ReadError::MissingColumn {
+    let wanted = [
+        (&opts.date, "date-column"),
+        (&opts.asset, "asset-column"),
+        (&opts.forecast, "forecast-column"),
+        (&opts.ret, "return-column"),
+    ];
+    let found: Vec<Option<usize>> =
+        wanted.iter().map(|(name, _)| header.iter().position(|h| h == name.as_str())).collect();
+    let missing: Vec<String> = wanted
+        .iter()
+        .zip(&found)
+        .filter(|(_, f)| f.is_none())
+        .map(|((name, flag), _)| format!("no column `{name}` (name it with --{flag})"))
+        .collect();
+    if !missing.is_empty() {
+        return Err(ReadError::MissingColumns {
             path: path.to_path_buf(),
-            column: name.to_string(),
+            missing: missing.join("; "),
             header: header.iter().collect::<Vec<_>>().join(", "),
-            flag,
-        })
+        });
+    }
+    let [cd, ca, cf, cr] = [0, 1, 2, 3].map(|i| found[i].unwrap_or_default());
+    let tokens = if opts.na.is_empty() {
+        "an empty field".to_string()
+    } else {
+        format!("empty, {}", opts.na.iter().map(|t| format!("`{t}`")).collect::<Vec<_>>().join(", "))
     };
-    let (cd, ca, cf, cr) = (
-        col(&opts.date, "date-column")?,
-        col(&opts.asset, "asset-column")?,
-        col(&opts.forecast, "forecast-column")?,
-        col(&opts.ret, "return-column")?,
-    );
+    let is_na = |t: &str| t.is_empty() || opts.na.iter().any(|n| n.eq_ignore_ascii_case(t));
+    let mut first_time: Option<(String, u64)> = None;
     let mut date_ids: HashMap<i64, u32> = HashMap::new();
     let mut asset_ids: HashMap<String, u32> = HashMap::new();
     // (date id, asset id, line, forecast, return): 32 bytes a row.
@@ -326,20 +398,40 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         let field = |i: usize| record.get(i).unwrap_or("");
         let number = |i: usize, name: &str| -> Result<f64, ReadError> {
             let t = field(i);
-            if t.is_empty() {
+            if is_na(t) {
                 return Ok(f64::NAN);
             }
             match t.parse::<f64>() {
                 Ok(v) if v.is_finite() => Ok(v),
-                _ => Err(ReadError::BadNumber { path: path.to_path_buf(), line, column: name.into(), value: t.into() }),
+                _ => Err(ReadError::BadNumber {
+                    path: path.to_path_buf(),
+                    line,
+                    column: name.into(),
+                    value: t.into(),
+                    tokens: tokens.clone(),
+                }),
             }
         };
-        let day = parse_date(field(cd)).ok_or_else(|| ReadError::BadDate {
+        let (day, time) = parse_date(field(cd)).ok_or_else(|| ReadError::BadDate {
             path: path.to_path_buf(),
             line,
             column: opts.date.clone(),
             value: field(cd).into(),
         })?;
+        match &first_time {
+            None => first_time = Some((time.to_string(), line)),
+            Some((first, first_line)) if first != time => {
+                return Err(ReadError::MixedTimes {
+                    path: path.to_path_buf(),
+                    line,
+                    value: field(cd).into(),
+                    time: if time.is_empty() { "no time".into() } else { time.into() },
+                    first: if first.is_empty() { "no time".into() } else { first.clone() },
+                    first_line: *first_line,
+                });
+            }
+            Some(_) => {}
+        }
         let (f, r) = (number(cf, &opts.forecast)?, number(cr, &opts.ret)?);
         unsorted |= day < last_day;
         last_day = last_day.max(day);

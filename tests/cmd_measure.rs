@@ -198,12 +198,13 @@ fn bad_panels_are_refused_with_file_and_line() {
     let mut lines: Vec<String> = good.lines().map(String::from).collect();
     lines[3] = "2001-01-15,A2,abc,0.01".into();
     let err = fails(&lines.join("\n"), &[]);
-    assert!(err.contains("line 4: `forecast` must be a finite number or empty, got \"abc\""), "{err}");
+    assert!(err.contains("line 4: `forecast` must be a finite number or a missing-value token"), "{err}");
+    assert!(err.contains("got \"abc\""), "{err}");
     lines[3] = "2001-01-15,A2,inf,0.01".into();
     assert!(fails(&lines.join("\n"), &[]).contains("line 4"));
     lines[3] = "2001-13-15,A2,1,0.01".into();
     let err = fails(&lines.join("\n"), &[]);
-    assert!(err.contains("line 4: `date` must be an ISO 8601 date (YYYY-MM-DD), got \"2001-13-15\""), "{err}");
+    assert!(err.contains("line 4: `date` must be a date as YYYY-MM-DD") && err.contains("got \"2001-13-15\""), "{err}");
     lines[3] = "2001-01-15,A1,1,0.01".into();
     let err = fails(&lines.join("\n"), &[]);
     assert!(err.contains("line 4: asset \"A1\" appears twice on 2001-01-15 (first on line 3)"), "{err}");
@@ -240,4 +241,75 @@ fn unbalanced_panels_use_the_assets_present_and_skip_thin_dates() {
     let m = measure_json(&tmp.path().join("o"));
     // 8 dates, 7 with a forward return; month 4 has only 10 assets: skipped at lag 1.
     assert_eq!((m["dates_used"].as_u64(), m["dates_skipped"].as_u64()), (Some(6), Some(2)));
+}
+
+#[test]
+fn files_as_researchers_have_them_are_read() {
+    // Missing-value tokens of statistical packages and databases, dates with
+    // slashes, without separators and as date-times at one time of day all
+    // measure exactly as the plain file.
+    let tmp = tempfile::tempdir().unwrap();
+    let plain = rows(10);
+    let mut toks = ["NA", "NaN", "n/a", "NULL", "-"].iter().cycle();
+    let variants: Vec<(&str, Box<dyn Fn(&str) -> String>)> = vec![
+        ("slash", Box::new(|d: &str| d.replace('-', "/"))),
+        ("compact", Box::new(|d: &str| d.replace('-', ""))),
+        ("datetime", Box::new(|d: &str| format!("{d}T00:00:00"))),
+        ("spaced", Box::new(|d: &str| format!("{d} 16:00:00"))),
+    ];
+    let mut blanked = String::new();
+    let mut tokened = String::new();
+    for (i, line) in plain.lines().enumerate() {
+        let f: Vec<&str> = line.split(',').collect();
+        if i > 0 && i % 7 == 0 {
+            blanked.push_str(&format!("{},{},,{}\n", f[0], f[1], f[3]));
+            tokened.push_str(&format!("{},{},{},{}\n", f[0], f[1], toks.next().unwrap(), f[3]));
+        } else {
+            blanked.push_str(&format!("{line}\n"));
+            tokened.push_str(&format!("{line}\n"));
+        }
+    }
+    let run = |name: &str, text: &str, extra: &[&str]| -> Value {
+        let csv = tmp.path().join(format!("{name}.csv"));
+        std::fs::write(&csv, text).unwrap();
+        let out = tmp.path().join(name);
+        lagfold()
+            .arg("measure")
+            .arg(&csv)
+            .args(["--horizons", "2", "--no-study", "--bootstrap", "10", "--min-assets", "10", "-q", "--out"])
+            .arg(&out)
+            .args(extra)
+            .assert()
+            .success();
+        measure_json(&out)
+    };
+    let want = run("blanked", &blanked, &[]);
+    assert_eq!(run("tokens", &tokened, &[])["lagged_ic"], want["lagged_ic"]);
+    for (name, f) in &variants {
+        let text: String = blanked
+            .lines()
+            .enumerate()
+            .map(|(i, l)| if i == 0 { format!("{l}\n") } else { format!("{},{}\n", f(&l[..10]), &l[11..]) })
+            .collect();
+        assert_eq!(run(name, &text, &[])["lagged_ic"], want["lagged_ic"], "{name}");
+    }
+    // `--na` sets the list: with only "n/a" missing, "NA" is a bad number.
+    let err = fails(&tokened, &["--na", "n/a"]);
+    assert!(err.contains("got \"NA\"") && err.contains("`n/a`"), "{err}");
+    // Two times of day: refused with both lines.
+    let mixed = blanked.replacen("2001-01-15,A0", "2001-01-15T16:00:00,A0", 1).replacen(
+        "2001-01-15,A1",
+        "2001-01-15T09:30:00,A1",
+        1,
+    );
+    let err = fails(&mixed, &[]);
+    assert!(err.contains("line 3") && err.contains("09:30:00") && err.contains("line 2 is at 16:00:00"), "{err}");
+    // Every missing column in one message, with the header found.
+    let err = fails(&plain.replacen("date,asset,forecast,return", "when,asset,score,return", 1), &[]);
+    assert!(
+        err.contains(
+            "no column `date` (name it with --date-column); no column `forecast` (name it with --forecast-column)"
+        ) && err.contains("the header has: when, asset, score, return"),
+        "{err}"
+    );
 }

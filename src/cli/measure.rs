@@ -62,6 +62,11 @@ pub struct MeasureArgs {
     /// period that starts at it).
     #[arg(long)]
     pub backward_returns: bool,
+    /// Field values that mean "missing", comma-separated, besides an empty
+    /// field (default: NA,NaN,N/A,null,-; case is ignored; `--na ''` for
+    /// empty fields only).
+    #[arg(long, value_delimiter = ',')]
+    pub na: Option<Vec<String>>,
     /// Dates where fewer assets have both values are skipped (at least 3).
     #[arg(long, default_value_t = 20, value_parser = clap::value_parser!(u32).range(3..))]
     pub min_assets: u32,
@@ -101,6 +106,10 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
         ret: a.return_column.clone(),
         backward: a.backward_returns,
         max_bytes: a.max_memory.unwrap_or_else(crate::reader::default_max_bytes),
+        na: match &a.na {
+            Some(list) => list.iter().map(|t| t.trim().to_string()).filter(|t| !t.is_empty()).collect(),
+            None => crate::reader::DEFAULT_NA.iter().map(|s| s.to_string()).collect(),
+        },
     };
     if a.study.horizons == Some(0) {
         return Err(Failure::input("`--horizons` must be at least 1, got 0"));
