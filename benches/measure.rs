@@ -9,6 +9,7 @@ use std::process::Command;
 use std::time::Instant;
 
 /// Runs `cmd` to its end; returns whether it succeeded and its peak resident memory in bytes.
+#[allow(clippy::zombie_processes)] // reaped by wait4 below, which also gives its rusage
 fn run_measured(cmd: &mut Command) -> (bool, u64) {
     let child = cmd.spawn().unwrap();
     let (mut status, mut usage): (libc::c_int, libc::rusage) = (0, unsafe { std::mem::zeroed() });

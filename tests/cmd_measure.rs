@@ -251,7 +251,8 @@ fn files_as_researchers_have_them_are_read() {
     let tmp = tempfile::tempdir().unwrap();
     let plain = rows(10);
     let mut toks = ["NA", "NaN", "n/a", "NULL", "-"].iter().cycle();
-    let variants: Vec<(&str, Box<dyn Fn(&str) -> String>)> = vec![
+    type Rewrite = Box<dyn Fn(&str) -> String>;
+    let variants: Vec<(&str, Rewrite)> = vec![
         ("slash", Box::new(|d: &str| d.replace('-', "/"))),
         ("compact", Box::new(|d: &str| d.replace('-', ""))),
         ("datetime", Box::new(|d: &str| format!("{d}T00:00:00"))),
