@@ -202,10 +202,35 @@ fn measure_draws_the_users_curves_and_the_bootstrap() {
         .arg(&out)
         .assert()
         .success();
-    check_charts(&out, &[("measured_ic", "Your signal's measured decay"), ("bootstrap", "bootstrap resamples")]);
+    check_charts(
+        &out,
+        &[
+            ("measured_ic", "Your signal's measured decay"),
+            ("rolling_ic", "rolling 12-period mean"),
+            ("bootstrap", "bootstrap resamples"),
+        ],
+    );
     let svg = std::fs::read_to_string(out.join("measured_ic.svg")).unwrap();
     assert!(svg.contains("fitted") && svg.contains("95% interval"));
-    check_report(&out, "measure.json", 2);
+    check_report(&out, "measure.json", 3);
+    // per_date.csv: a row per date, every lag, rank and horizon column, and the
+    // last date skipped for want of a later return, as measure.json lists it.
+    let per_date = std::fs::read_to_string(out.join("per_date.csv")).unwrap();
+    let lines: Vec<&str> = per_date.lines().collect();
+    assert_eq!(lines.len(), 61);
+    assert_eq!(lines[0].split(',').count(), 2 + 3 * 12 + 1);
+    assert!(
+        lines[60].starts_with("2005-12-31,0,") && lines[60].ends_with("last date: no return after it"),
+        "{}",
+        lines[60]
+    );
+    let m: Value = serde_json::from_slice(&std::fs::read(out.join("measure.json")).unwrap()).unwrap();
+    assert_eq!(m["skipped_dates"][0]["date"], "2005-12-31");
+    let first: Vec<&str> = lines[1].split(',').collect();
+    assert_eq!(first[1], "200");
+    let ic1: f64 = first[2].parse().unwrap();
+    let mean: f64 = (1..60).map(|i| lines[i].split(',').nth(2).unwrap().parse::<f64>().unwrap()).sum::<f64>() / 59.0;
+    assert!((mean - m["lagged_ic"]["mean"][0].as_f64().unwrap()).abs() < 1e-7 && ic1.abs() < 1.0);
 }
 
 #[test]

@@ -8,7 +8,8 @@ use crate::measure::rules::choose_measured;
 use crate::measure::{Measurement, Panel, bootstrap, extras, fit, sign};
 use crate::reader::{ReadOptions, read_panel};
 use crate::report::{
-    self, BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult, SuccessRatio, TimingCheck, finite,
+    self, BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult, PerDateTable, SkippedDate,
+    SuccessRatio, TimingCheck, finite,
 };
 use crate::study::Setup;
 use std::path::{Path, PathBuf};
@@ -77,6 +78,9 @@ pub struct MeasureArgs {
     /// Do not run the study on the calibrated scenario.
     #[arg(long)]
     pub no_study: bool,
+    /// Periods in the rolling mean of the lag-1 IC charted in the report.
+    #[arg(long, default_value_t = 12, value_parser = clap::value_parser!(u32).range(2..=10_000))]
+    pub window: u32,
     /// Stationary-bootstrap resamples of the dates.
     #[arg(long, default_value_t = 1000, value_parser = clap::value_parser!(u32).range(10..=100_000))]
     pub bootstrap: u32,
@@ -134,6 +138,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
         min_assets: a.min_assets as usize,
         backward: a.backward_returns,
         bootstrap: (a.bootstrap as usize, seed),
+        window: a.window as usize,
     };
     let (mut result, fit) = measure(&read, &a.panel, &settings).map_err(Failure::input)?;
     let name: String = format!("{stem}-calibrated")
@@ -173,6 +178,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     }
     files.push(("measure.json".into(), report::measure_json(&result)));
     files.push(("measure_lags.csv".into(), report::measure_csv(&result)));
+    files.push(("per_date.csv".into(), report::per_date_csv(&result)));
     let charts = super::charts(a.study.no_charts, || report::measure_charts(&result))?;
     files.extend(charts.files);
     let settings = serde_json::json!({
@@ -261,6 +267,8 @@ pub struct Settings {
     pub backward: bool,
     /// `(resamples, seed)` of the stationary bootstrap.
     pub bootstrap: (usize, u64),
+    /// Periods in the rolling-IC chart.
+    pub window: usize,
 }
 
 /// Counts of each rule's choices over the bootstrap resamples.
@@ -338,6 +346,13 @@ pub fn measure(
     };
     let mut warnings = read.warnings.clone();
     let timing = timing_check(p, &m, min, s.backward, &mut warnings);
+    let per_date = per_date_table(read, &m, min);
+    let skipped_dates = per_date
+        .dates
+        .iter()
+        .zip(&per_date.skipped)
+        .filter_map(|(d, r)| Some(SkippedDate { date: d.clone(), reason: r.clone()? }))
+        .collect();
     let (fitted_family, fitted_shape, fitted_curve) = match &best {
         Some(f) => (f.family.name().to_string(), finite(f.shape1), f.curve.clone()),
         None => ("none".to_string(), None, Vec::new()),
@@ -374,8 +389,52 @@ pub fn measure(
         se_disagreements: Vec::new(),
         calibrated_study: None,
         warnings,
+        skipped_dates,
+        rolling_window: s.window,
+        per_date,
     };
     Ok((result, best))
+}
+
+/// Every date's figures and why a date gave no lag-1 IC.
+fn per_date_table(read: &crate::reader::ReadPanel, m: &Measurement, min: usize) -> PerDateTable {
+    let p = &read.panel;
+    let t = p.dates;
+    let used: Vec<usize> = (0..t)
+        .map(|d| {
+            if d + 1 >= t {
+                return 0;
+            }
+            p.forecast_row(d).iter().zip(p.return_row(d)).filter(|(f, r)| f.is_finite() && r.is_finite()).count()
+        })
+        .collect();
+    let lagged = PerDateTable::by_date(&m.lagged, t);
+    let skipped = (0..t)
+        .map(|d| {
+            if lagged[d][0].is_some() {
+                None
+            } else if d + 1 == t {
+                Some("last date: no return after it".to_string())
+            } else if read.missing_periods.contains(&read.dates[d]) {
+                Some("missing period: no rows".to_string())
+            } else if used[d] < min {
+                Some(format!(
+                    "{} assets with a forecast and a next-period return, fewer than --min-assets {min}",
+                    used[d]
+                ))
+            } else {
+                Some("no cross-sectional variance in the forecast or the return".to_string())
+            }
+        })
+        .collect();
+    PerDateTable {
+        dates: read.dates.clone(),
+        used_assets: used,
+        lagged,
+        rank: PerDateTable::by_date(&m.rank_lagged, t),
+        horizon: PerDateTable::by_date(&m.horizon, t),
+        skipped,
+    }
 }
 
 /// How the reported standard errors and intervals are made.

@@ -160,6 +160,58 @@ pub struct CalibratedStudy {
     pub regret_rel_mean: [f64; 3],
 }
 
+/// A date that gave no lag-1 IC, and why.
+#[derive(Debug, Clone, Serialize)]
+pub struct SkippedDate {
+    /// The date (ISO).
+    pub date: String,
+    /// Why, in words.
+    pub reason: String,
+}
+
+/// Every date's figures: the rows of `per_date.csv`.
+#[derive(Debug, Clone, Default)]
+pub struct PerDateTable {
+    /// The dates (ISO), missing periods included.
+    pub dates: Vec<String>,
+    /// Assets with a forecast and a return over the next period.
+    pub used_assets: Vec<usize>,
+    /// Per date, the IC at each lag (`None` where not measured).
+    pub lagged: Vec<Vec<Option<f64>>>,
+    /// Per date, the rank IC at each lag.
+    pub rank: Vec<Vec<Option<f64>>>,
+    /// Per date, the horizon IC at each horizon.
+    pub horizon: Vec<Vec<Option<f64>>>,
+    /// Per date, why it gave no lag-1 IC.
+    pub skipped: Vec<Option<String>>,
+}
+
+impl PerDateTable {
+    /// Each date's value at every lag of `p`, by date (`t` dates).
+    pub fn by_date(p: &PerDate, t: usize) -> Vec<Vec<Option<f64>>> {
+        let mut out = vec![vec![None; p.len()]; t];
+        for k in 1..=p.len() {
+            for (v, d) in p.series(k).iter().zip(p.dates(k)) {
+                out[*d as usize][k - 1] = finite(*v);
+            }
+        }
+        out
+    }
+
+    /// The rolling mean of the lag-1 IC over the last `window` periods, where
+    /// at least half of them have a value: `(date index, mean)`.
+    pub fn rolling_lag1(&self, window: usize) -> Vec<(usize, f64)> {
+        let ic: Vec<Option<f64>> = self.lagged.iter().map(|r| r.first().copied().flatten()).collect();
+        (window.saturating_sub(1)..ic.len())
+            .filter_map(|t| {
+                let vals: Vec<f64> = ic[t + 1 - window..=t].iter().flatten().copied().collect();
+                (2 * vals.len() >= window && !vals.is_empty())
+                    .then(|| (t, vals.iter().sum::<f64>() / vals.len() as f64))
+            })
+            .collect()
+    }
+}
+
 /// Everything `measure` reports.
 #[derive(Debug, Clone, Serialize)]
 pub struct MeasureResult {
@@ -218,6 +270,13 @@ pub struct MeasureResult {
     pub calibrated_study: Option<CalibratedStudy>,
     /// What the reader noticed.
     pub warnings: Vec<String>,
+    /// Dates that gave no lag-1 IC, with the reason.
+    pub skipped_dates: Vec<SkippedDate>,
+    /// Periods in the rolling-IC chart.
+    pub rolling_window: usize,
+    /// Every date's figures (`per_date.csv`; not in `measure.json`).
+    #[serde(skip)]
+    pub per_date: PerDateTable,
 }
 
 /// `measure.json`.
@@ -251,6 +310,31 @@ pub fn measure_csv(m: &MeasureResult) -> Vec<u8> {
             ]);
         }
         row.push(o(m.fitted_curve.get(i).copied().and_then(finite)));
+        w.write_record(&row).expect("in-memory CSV");
+    }
+    w.into_inner().expect("in-memory CSV")
+}
+
+/// `per_date.csv`: one row per date — the assets used, the IC at every lag,
+/// the rank IC at every lag, the horizon IC at every horizon, and why a date
+/// was skipped; empty fields where a figure is not measured.
+pub fn per_date_csv(m: &MeasureResult) -> Vec<u8> {
+    let t = &m.per_date;
+    let l = m.horizons;
+    let mut w = csv::Writer::from_writer(Vec::new());
+    let mut header = vec!["date".to_string(), "used_assets".to_string()];
+    header.extend((1..=l).map(|k| format!("ic_lag{k}")));
+    header.extend((1..=l).map(|k| format!("rank_ic_lag{k}")));
+    header.extend((1..=l).map(|n| format!("horizon_ic_{n}")));
+    header.push("skipped".into());
+    w.write_record(&header).expect("in-memory CSV");
+    let o = |x: &Option<f64>| x.map(|v| format!("{v:.8}")).unwrap_or_default();
+    for (i, date) in t.dates.iter().enumerate() {
+        let mut row = vec![date.clone(), t.used_assets[i].to_string()];
+        for table in [&t.lagged, &t.rank, &t.horizon] {
+            row.extend(table[i].iter().map(o));
+        }
+        row.push(t.skipped[i].clone().unwrap_or_default());
         w.write_record(&row).expect("in-memory CSV");
     }
     w.into_inner().expect("in-memory CSV")

@@ -18,8 +18,8 @@ pub use charts::{
 };
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
 pub use measure_out::{
-    BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult, SuccessRatio, TimingCheck, finite,
-    measure_csv, measure_json, measure_terminal,
+    BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult, PerDateTable, SkippedDate, SuccessRatio,
+    TimingCheck, finite, measure_csv, measure_json, measure_terminal, per_date_csv,
 };
 pub use panel_csv::write_panel;
 pub use plan::{plan_csv, plan_json, plan_terminal};

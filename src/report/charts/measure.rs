@@ -102,6 +102,46 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
         panels: vec![lagged, horizon],
         panel_height: 420,
     }];
+    let rolling = m.per_date.rolling_lag1(m.rolling_window);
+    if !rolling.is_empty() {
+        let w = m.rolling_window;
+        let mut layers = vec![Layer::HLine { y: 0.0, colour: PALETTE.grey, label: String::new() }];
+        if let Some(mean) = m.lagged_ic.mean[0] {
+            layers.push(Layer::HLine {
+                y: mean,
+                colour: PALETTE.black,
+                label: format!("mean over all dates ({mean:.4})"),
+            });
+        }
+        layers.push(Layer::Line {
+            x: rolling.iter().map(|r| (r.0 + 1) as f64).collect(),
+            y: rolling.iter().map(|r| r.1).collect(),
+            colour: PALETTE.blue,
+            width: 2,
+            dashed: false,
+            markers: false,
+            label: format!("mean of the last {w} periods"),
+        });
+        charts.push(Chart {
+            name: "rolling_ic".into(),
+            title: format!(
+                "Lag-1 IC, rolling {w}-period mean ({} to {})",
+                m.per_date.dates[0],
+                m.per_date.dates[m.dates - 1]
+            ),
+            caption: "Stretches well above or below the overall mean are the IC's regimes: the persistence that \
+                      widens every interval above."
+                .into(),
+            panels: vec![Panel::Xy(XyPanel {
+                heading: String::new(),
+                x_label: format!("period (1 = {})", m.per_date.dates[0]),
+                y_label: "lag-1 IC".into(),
+                layers,
+                ..XyPanel::default()
+            })],
+            panel_height: 360,
+        });
+    }
     if !boot_panels.is_empty() {
         charts.push(Chart {
             name: "bootstrap".into(),
