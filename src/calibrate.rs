@@ -22,6 +22,10 @@ pub struct Measured<'a> {
     pub forecast_autocorrelation: Option<f64>,
     /// Measured IC volatility beyond sampling noise.
     pub ic_volatility: Option<f64>,
+    /// Measured IC persistence beyond sampling noise.
+    pub ic_persistence: Option<f64>,
+    /// Excess kurtosis of standardised returns and the Student-t degrees of freedom it implies.
+    pub tails: Option<(f64, Option<f64>)>,
 }
 
 /// Periods a year for a median gap between dates: 12, 52 or 252 when the gap
@@ -92,24 +96,59 @@ pub fn calibrated(m: &Measured, name: &str, paths: usize, seed: u64) -> Result<(
         }
     };
     let mut text = String::new();
+    let ppy = periods_per_year(m.median_gap_days);
+    let vol = if vol.is_finite() && vol > 0.0 { vol } else { 0.01 };
+    let rho = m.forecast_autocorrelation.unwrap_or(0.0).clamp(-0.98, 0.98);
+    let psi = m.ic_persistence.unwrap_or(0.0).clamp(0.0, 0.95);
+    let ic_vol =
+        crate::measure::extras::ic_vol_parameter(m.ic_volatility.unwrap_or(0.0), psi, p.dates - 1).clamp(0.0, 0.5);
     let _ = writeln!(text, "# Calibrated by `lagfold measure` from a measured panel; edit freely.");
     let _ = writeln!(text, "name = \"{name}\"");
     let _ = writeln!(
         text,
-        "description = \"Calibrated to a measured panel: breadth, history, fitted decay, persistence, IC volatility\""
+        "description = \"Calibrated to a measured panel: breadth, history, fitted decay, persistence, IC volatility and tails\""
     );
-    let _ = writeln!(text, "assets = {}", (assets as usize).max(10));
-    let _ = writeln!(text, "history = {}", p.dates);
-    let _ = writeln!(text, "horizons = {}", m.horizons);
-    let _ = writeln!(text, "periods_per_year = {}", periods_per_year(m.median_gap_days));
-    let _ = writeln!(text, "residual_vol = {:.6}", if vol.is_finite() && vol > 0.0 { vol } else { 0.01 });
+    let _ = writeln!(text, "assets = {}  # median assets with a forecast per date", (assets as usize).max(10));
+    let _ = writeln!(text, "history = {}  # periods in the panel, missing ones included", p.dates);
+    let _ = writeln!(text, "horizons = {}  # longest horizon measured", m.horizons);
+    let _ =
+        writeln!(text, "periods_per_year = {ppy}  # from the median gap between dates ({} days)", m.median_gap_days);
+    let _ = writeln!(text, "residual_vol = {vol:.6}  # median cross-sectional sd of returns per period");
     let _ = writeln!(
         text,
-        "forecast_autocorrelation = {:.4}",
-        m.forecast_autocorrelation.unwrap_or(0.0).clamp(-0.98, 0.98)
+        "forecast_autocorrelation = {rho:.4}  # mean correlation of each date's forecasts with the previous date's"
     );
-    let _ = writeln!(text, "ic_vol = {:.4}", m.ic_volatility.unwrap_or(0.0).clamp(0.0, 0.5));
-    let _ = writeln!(text, "paths = {paths}\nseed = {seed}\n\n[decay]\n{decay}");
+    let _ = writeln!(
+        text,
+        "ic_vol = {ic_vol:.4}  # sd of the per-date lag-1 IC beyond sampling noise ({:.4}), corrected for persistence and curvature",
+        m.ic_volatility.unwrap_or(0.0)
+    );
+    let _ = writeln!(
+        text,
+        "ic_vol_persistence = {psi:.4}  # {}",
+        match m.ic_persistence {
+            Some(_) => "autocorrelation of the per-date lag-1 IC beyond sampling noise (Kendall-corrected)",
+            None => "not measurable (the IC's variance is mostly sampling noise): 0",
+        }
+    );
+    let _ =
+        writeln!(text, "paths = {paths}\nseed = {seed}\n\n[decay]  # fitted to the lagged ICs, family by AIC\n{decay}");
+    match m.tails {
+        Some((k, Some(dof))) => {
+            let _ = writeln!(
+                text,
+                "\n[tails]  # excess kurtosis {k:.3} of returns standardised per date; t has 6/(dof - 4), floor {}\nfamily = \"student_t\"\ndof = {dof:.2}",
+                crate::measure::extras::MIN_DOF
+            );
+        }
+        Some((k, None)) => {
+            let _ = writeln!(
+                text,
+                "\n[tails]  # excess kurtosis {k:.3} of standardised returns: normal\nfamily = \"normal\""
+            );
+        }
+        None => {}
+    }
     let s = scenario::load(&text, "calibrated.toml", name, &Overrides::default()).map_err(|e| e.to_string())?;
     // The model and its truth must exist too (a negative fitted IC has no optimum).
     crate::study::Setup::new(s.clone()).map_err(|e| e.to_string())?;

@@ -156,6 +156,8 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
                 fit,
                 forecast_autocorrelation: result.forecast_autocorrelation,
                 ic_volatility: result.ic_volatility,
+                ic_persistence: result.ic_persistence,
+                tails: result.return_excess_kurtosis.map(|k| (k, result.tails_dof)),
             },
             &name,
             paths,
@@ -347,6 +349,7 @@ pub fn measure(
     let mut warnings = read.warnings.clone();
     let timing = timing_check(p, &m, min, s.backward, &mut warnings);
     let per_date = per_date_table(read, &m, min);
+    let kurtosis = extras::return_excess_kurtosis(p, min).and_then(finite);
     let skipped_dates = per_date
         .dates
         .iter()
@@ -377,6 +380,13 @@ pub fn measure(
         timing,
         forecast_autocorrelation: extras::forecast_autocorrelation(p, min).and_then(finite),
         ic_volatility: extras::ic_volatility(p, min).and_then(finite),
+        ic_persistence: extras::ic_persistence(p, min).and_then(finite),
+        return_excess_kurtosis: kurtosis,
+        tails_dof: kurtosis.and_then(|k| {
+            let vol = extras::ic_volatility(p, min).unwrap_or(0.0);
+            let psi = extras::ic_persistence(p, min).unwrap_or(0.0);
+            extras::tail_dof(k, extras::ic_vol_parameter(vol, psi, p.dates - 1))
+        }),
         fitted_family,
         fitted_shape,
         fitted_curve,

@@ -36,8 +36,7 @@ pub fn forecast_autocorrelation(p: &Panel, min_assets: usize) -> Option<f64> {
 /// correlation near zero being about `1/(n − 1)` (Fisher, 1915); dates with
 /// fewer than `min_assets` pairs are left out.
 pub fn ic_volatility(p: &Panel, min_assets: usize) -> Option<f64> {
-    let ics: Vec<(f64, usize)> =
-        (0..p.dates - 1).filter_map(|t| corr_finite(p.forecast_row(t), p.return_row(t), min_assets)).collect();
+    let ics = lag1_ics(p, min_assets);
     if ics.len() < 2 {
         return None;
     }
@@ -47,6 +46,94 @@ pub fn ic_volatility(p: &Panel, min_assets: usize) -> Option<f64> {
     let noise = ics.iter().map(|c| 1.0 / (c.1 as f64 - 1.0)).sum::<f64>() / m;
     Some((var - noise).max(0.0).sqrt())
 }
+
+/// Per-date lag-1 ICs with their number of pairs (dates with at least `min_assets`).
+fn lag1_ics(p: &Panel, min_assets: usize) -> Vec<(f64, usize)> {
+    (0..p.dates - 1).filter_map(|t| corr_finite(p.forecast_row(t), p.return_row(t), min_assets)).collect()
+}
+
+/// Persistence of the IC beyond sampling noise: the first autocorrelation of
+/// the per-date lag-1 IC over consecutive dates, corrected for its
+/// small-sample bias `−(1 + 3ρ)/m` (Kendall, 1954), divided by the share of
+/// the IC's variance that is not sampling noise (the noise, about `1/(n − 1)`
+/// a date, is independent from date to date); `None` when that share is
+/// below a tenth (no persistence can be told from noise). Clamped to `[0, 0.95]`.
+pub fn ic_persistence(p: &Panel, min_assets: usize) -> Option<f64> {
+    let ics: Vec<(usize, f64, usize)> = (0..p.dates - 1)
+        .filter_map(|t| corr_finite(p.forecast_row(t), p.return_row(t), min_assets).map(|(r, n)| (t, r, n)))
+        .collect();
+    let m = ics.len() as f64;
+    if ics.len() < 8 {
+        return None;
+    }
+    let mean = ics.iter().map(|c| c.1).sum::<f64>() / m;
+    let var = ics.iter().map(|c| (c.1 - mean).powi(2)).sum::<f64>() / m;
+    let noise = ics.iter().map(|c| 1.0 / (c.2 as f64 - 1.0)).sum::<f64>() / m;
+    let share = (var - noise) / var;
+    if !(share >= 0.1) {
+        return None;
+    }
+    // Autocovariance over pairs of consecutive dates only.
+    let pairs: Vec<(f64, f64)> =
+        ics.windows(2).filter(|w| w[1].0 == w[0].0 + 1).map(|w| (w[0].1 - mean, w[1].1 - mean)).collect();
+    if pairs.len() < 4 {
+        return None;
+    }
+    let rho = pairs.iter().map(|(a, b)| a * b).sum::<f64>() / pairs.len() as f64 / var;
+    let rho = rho + (1.0 + 3.0 * rho) / m;
+    Some((rho / share).clamp(0.0, 0.95))
+}
+
+/// The model's `ic_vol` (sd of the common shock) from the measured sd of the
+/// per-date IC beyond noise, `sd`, its persistence `psi` and the `m` dates
+/// behind it: the per-date IC is about `φ − φ³/2` in the shock, whose sd is
+/// `σ(1 − 1.5σ²)`, and a persistent series' sample variance falls short of
+/// its variance by the factor `1 − (1 + ψ)/((1 − ψ)m)` (derived; common
+/// practice for AR(1) series, no source).
+pub fn ic_vol_parameter(sd: f64, psi: f64, m: usize) -> f64 {
+    let shortfall = (1.0 - (1.0 + psi) / ((1.0 - psi) * m.max(1) as f64)).max(0.5);
+    sd * (1.0 + 1.5 * sd * sd) / shortfall.sqrt()
+}
+
+/// Excess kurtosis of the returns standardised within each date: per date
+/// the sample excess kurtosis `g₂ = m₄/m₂² − 3` made unbiased under
+/// normality, `G₂ = ((n + 1)·g₂ + 6)·(n − 1)/((n − 2)(n − 3))` (Joanes and
+/// Gill, 1998), averaged over dates with at least `min_assets` returns,
+/// weighted by their returns.
+pub fn return_excess_kurtosis(p: &Panel, min_assets: usize) -> Option<f64> {
+    let (mut s4, mut count) = (0.0, 0usize);
+    for t in 0..p.dates - 1 {
+        let r: Vec<f64> = p.return_row(t).iter().copied().filter(|x| x.is_finite()).collect();
+        if r.len() < min_assets.max(4) {
+            continue;
+        }
+        let n = r.len() as f64;
+        let mean = r.iter().sum::<f64>() / n;
+        let scale = pow2_scale(r.iter().fold(0.0, |a, x| (x - mean).abs().max(a)));
+        let var = r.iter().map(|x| ((x - mean) * scale).powi(2)).sum::<f64>() / n;
+        if var > 0.0 {
+            let g2 = r.iter().map(|x| ((x - mean) * scale).powi(4)).sum::<f64>() / n / (var * var) - 3.0;
+            s4 += n * ((n + 1.0) * g2 + 6.0) * (n - 1.0) / ((n - 2.0) * (n - 3.0));
+            count += r.len();
+        }
+    }
+    (count > 0).then(|| s4 / count as f64)
+}
+
+/// Student-t degrees of freedom of the idiosyncratic noise from the returns'
+/// excess kurtosis `κ`: the noise carries `1 − ic_vol²` of a return's
+/// variance and the rest is normal, so its own kurtosis is
+/// `κ/(1 − ic_vol²)²`, and `ν = 4 + 6/κ_e` (the t law's excess kurtosis is
+/// `6/(ν − 4)`), with a floor of [`MIN_DOF`] (below it the kurtosis is
+/// infinite or too unstable to read); `None` (normal tails) when `κ_e` is
+/// below 0.05 (`ν` above 124).
+pub fn tail_dof(excess_kurtosis: f64, ic_vol: f64) -> Option<f64> {
+    let k = excess_kurtosis / (1.0 - ic_vol * ic_vol).max(0.5).powi(2);
+    (k >= 0.05).then(|| (4.0 + 6.0 / k).max(MIN_DOF))
+}
+
+/// The fewest degrees of freedom a calibrated scenario gets.
+pub const MIN_DOF: f64 = 5.0;
 
 /// Whether the forecast takes exactly two distinct values over the panel (a
 /// binary forecast, for which Grinold and Kahn's success ratio applies).

@@ -253,6 +253,12 @@ pub struct MeasureResult {
     pub forecast_autocorrelation: Option<f64>,
     /// Standard deviation of the lag-1 IC beyond sampling noise.
     pub ic_volatility: Option<f64>,
+    /// First autocorrelation of the lag-1 IC beyond sampling noise.
+    pub ic_persistence: Option<f64>,
+    /// Excess kurtosis of the returns standardised within each date.
+    pub return_excess_kurtosis: Option<f64>,
+    /// Student-t degrees of freedom implied by it (`None`: normal tails).
+    pub tails_dof: Option<f64>,
     /// Fitted decay family, chosen by AIC.
     pub fitted_family: String,
     /// Its half-life (exponential), exponent (power), zero lag (linear) or peak lag (hump).
