@@ -70,7 +70,7 @@ pub fn ic_persistence(p: &Panel, min_assets: usize) -> Option<f64> {
     let var = ics.iter().map(|c| (c.1 - mean).powi(2)).sum::<f64>() / m;
     let noise = ics.iter().map(|c| 1.0 / (c.2 as f64 - 1.0)).sum::<f64>() / m;
     let share = (var - noise) / var;
-    if !(share >= 0.1) {
+    if share.is_nan() || share < 0.1 {
         return None;
     }
     // Autocovariance over pairs of consecutive dates only.
