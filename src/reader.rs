@@ -10,6 +10,7 @@
 
 use crate::calendar::days_from_civil;
 use crate::measure::Panel;
+use crate::measure::neutralise::Covariates;
 use std::collections::HashMap;
 use std::path::{Path, PathBuf};
 
@@ -31,6 +32,10 @@ pub struct ReadOptions {
     /// Field values that mean "missing" besides the empty field (compared
     /// without regard to case).
     pub na: Vec<String>,
+    /// A column of group labels (a sector, say) to neutralise on.
+    pub group: Option<String>,
+    /// Numeric columns (size, beta, …) to neutralise on.
+    pub exposures: Vec<String>,
 }
 
 /// The default missing-value tokens: what statistical packages, data frames
@@ -71,6 +76,8 @@ impl Default for ReadOptions {
             backward: false,
             max_bytes: default_max_bytes(),
             na: DEFAULT_NA.iter().map(|s| s.to_string()).collect(),
+            group: None,
+            exposures: Vec::new(),
         }
     }
 }
@@ -223,6 +230,8 @@ pub struct ReadPanel {
     pub frequency: Frequency,
     /// Periods with no row at all (ISO dates), inserted as empty dates.
     pub missing_periods: Vec<String>,
+    /// Group labels and exposures per date and asset, for neutralisation.
+    pub covariates: Covariates,
 }
 
 /// The calendar inferred from a panel's dates. Lags count periods of it, so a
@@ -341,7 +350,10 @@ pub fn parse_date(s: &str) -> Option<(i64, &str)> {
 /// # Errors
 /// Every [`ReadError`], naming the file and line.
 pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadError> {
-    let roles = [(&opts.date, "date"), (&opts.asset, "asset"), (&opts.forecast, "forecast"), (&opts.ret, "return")];
+    let mut roles =
+        vec![(&opts.date, "date"), (&opts.asset, "asset"), (&opts.forecast, "forecast"), (&opts.ret, "return")];
+    roles.extend(opts.group.iter().map(|g| (g, "group")));
+    roles.extend(opts.exposures.iter().map(|x| (x, "neutralize")));
     for (i, a) in roles.iter().enumerate() {
         if let Some(b) = roles[i + 1..].iter().find(|b| b.0 == a.0) {
             return Err(ReadError::SameColumn {
@@ -355,12 +367,14 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     let io = |e: &dyn std::fmt::Display| ReadError::Io { path: path.to_path_buf(), message: e.to_string() };
     let mut rdr = csv::ReaderBuilder::new().trim(csv::Trim::All).from_path(path).map_err(|e| io(&e))?;
     let header = rdr.headers().map_err(|e| io(&e))?.clone();
-    let wanted = [
+    let mut wanted = vec![
         (&opts.date, "date-column"),
         (&opts.asset, "asset-column"),
         (&opts.forecast, "forecast-column"),
         (&opts.ret, "return-column"),
     ];
+    wanted.extend(opts.group.iter().map(|g| (g, "group-column")));
+    wanted.extend(opts.exposures.iter().map(|x| (x, "neutralize")));
     let found: Vec<Option<usize>> =
         wanted.iter().map(|(name, _)| header.iter().position(|h| h == name.as_str())).collect();
     let missing: Vec<String> = wanted
@@ -377,6 +391,12 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         });
     }
     let [cd, ca, cf, cr] = [0, 1, 2, 3].map(|i| found[i].unwrap_or_default());
+    let cg = opts.group.as_ref().map(|_| found[4].unwrap_or_default());
+    let cx: Vec<usize> = found[4 + usize::from(cg.is_some())..].iter().map(|c| c.unwrap_or_default()).collect();
+    let mut group_ids: HashMap<String, u32> = HashMap::new();
+    let (mut row_groups, mut row_exposures): (Vec<u32>, Vec<f64>) = (Vec::new(), Vec::new());
+    let per_row_extra = (if cg.is_some() { 4 } else { 0 }) + 8 * cx.len() as u64;
+    let per_cell = BYTES_PER_CELL + per_row_extra;
     let tokens = if opts.na.is_empty() {
         "an empty field".to_string()
     } else {
@@ -386,8 +406,8 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     let mut first_time: Option<(String, u64)> = None;
     let mut date_ids: HashMap<i64, u32> = HashMap::new();
     let mut asset_ids: HashMap<String, u32> = HashMap::new();
-    // (date id, asset id, line, forecast, return): 32 bytes a row.
-    let mut cells: Vec<(u32, u32, u32, f64, f64)> = Vec::new();
+    // (date id, asset id, line, row, forecast, return): 32 bytes a row.
+    let mut cells: Vec<(u32, u32, u32, u32, f64, f64)> = Vec::new();
     let mut unsorted = false;
     let mut last_day = i64::MIN;
     let mut rows = 0u64;
@@ -439,14 +459,27 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         let d = *date_ids.entry(day).or_insert(n_dates);
         let n_assets = asset_ids.len() as u32;
         let a = *asset_ids.entry(field(ca).to_string()).or_insert(n_assets);
-        cells.push((d, a, u32::try_from(line).unwrap_or(u32::MAX), f, r));
+        cells.push((d, a, u32::try_from(line).unwrap_or(u32::MAX), (rows - 1) as u32, f, r));
+        if let Some(c) = cg {
+            let label = field(c);
+            let n_groups = group_ids.len() as u32;
+            row_groups.push(if is_na(label) {
+                u32::MAX
+            } else {
+                *group_ids.entry(label.to_string()).or_insert(n_groups)
+            });
+        }
+        for (&c, name) in cx.iter().zip(&opts.exposures) {
+            row_exposures.push(number(c, name)?);
+        }
         let (t, n) = (date_ids.len() as u64, asset_ids.len() as u64);
-        if rows.is_multiple_of(4096) && (t * n * BYTES_PER_CELL).max(rows * 32) > opts.max_bytes {
-            return Err(too_large(path, t as usize, n as usize, opts.max_bytes));
+        if rows.is_multiple_of(4096) && (t * n * per_cell).max(rows * (32 + per_row_extra)) > opts.max_bytes {
+            return Err(too_large(path, t as usize, n as usize, opts.max_bytes, per_cell));
         }
     }
     // Duplicates: sort by (date, asset, line) in place and compare neighbours.
     cells.sort_unstable_by_key(|c| (c.0, c.1, c.2));
+    let k = cx.len();
     if let Some(w) = cells.windows(2).find(|w| (w[0].0, w[0].1) == (w[1].0, w[1].1)) {
         let day = date_ids.iter().find(|(_, id)| **id == w[1].0).map_or(0, |(z, _)| *z);
         let (y, m, d) = crate::calendar::civil_from_days(day);
@@ -521,8 +554,8 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         }
     }
     let n = n_assets_total;
-    if (t as u64) * (n as u64) * BYTES_PER_CELL > opts.max_bytes {
-        return Err(too_large(path, t, n, opts.max_bytes));
+    if (t as u64) * (n as u64) * per_cell > opts.max_bytes {
+        return Err(too_large(path, t, n, opts.max_bytes, per_cell));
     }
     let mut order = vec![0usize; days.len()];
     for (pos, &(_, id)) in days.iter().enumerate() {
@@ -535,9 +568,17 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         returns: vec![f64::NAN; (t - 1) * n],
         has_missing: false,
     };
-    for (d, a, _, f, r) in cells {
+    let mut covariates =
+        Covariates { groups: cg.map(|_| vec![u32::MAX; t * n]), exposures: vec![vec![f64::NAN; t * n]; k] };
+    for (d, a, _, src, f, r) in cells {
         let (row, a) = (order[d as usize], a as usize);
         panel.forecasts[row * n + a] = f;
+        if let Some(g) = covariates.groups.as_mut() {
+            g[row * n + a] = row_groups[src as usize];
+        }
+        for (j, x) in covariates.exposures.iter_mut().enumerate() {
+            x[row * n + a] = row_exposures[src as usize * k + j];
+        }
         // Forward: the row's own period. Backward: its period ends at this date, so it is the previous date's forward return.
         let target = if opts.backward { row.checked_sub(1) } else { (row + 1 < t).then_some(row) };
         if let Some(rr) = target {
@@ -549,15 +590,24 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     for (pos, &(z, _)) in days.iter().enumerate() {
         dates[index[pos] as usize] = iso(z);
     }
-    Ok(ReadPanel { panel, dates, rows, warnings, median_gap_days: median as f64, frequency, missing_periods })
+    Ok(ReadPanel {
+        panel,
+        dates,
+        rows,
+        warnings,
+        median_gap_days: median as f64,
+        frequency,
+        missing_periods,
+        covariates,
+    })
 }
 
-fn too_large(path: &Path, dates: usize, assets: usize, budget: u64) -> ReadError {
+fn too_large(path: &Path, dates: usize, assets: usize, budget: u64, per_cell: u64) -> ReadError {
     ReadError::TooLarge {
         path: path.to_path_buf(),
         dates,
         assets,
-        need: bytes_words(dates as u64 * assets as u64 * BYTES_PER_CELL),
+        need: bytes_words(dates as u64 * assets as u64 * per_cell),
         budget: bytes_words(budget),
     }
 }

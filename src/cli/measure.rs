@@ -59,6 +59,15 @@ pub struct MeasureArgs {
     /// Name of the return column.
     #[arg(long, default_value = "return")]
     pub return_column: String,
+    /// A column of group labels (a sector, say): forecasts and returns are
+    /// demeaned within each group on each date before any IC.
+    #[arg(long)]
+    pub group_column: Option<String>,
+    /// Numeric columns to neutralise on, comma-separated (size,beta): each
+    /// date's forecasts and returns are replaced by their least-squares
+    /// residuals on them, with an intercept, before any IC.
+    #[arg(long, alias = "neutralise", value_delimiter = ',')]
+    pub neutralize: Vec<String>,
     /// Returns are over the period that ends at the row's date (default: the
     /// period that starts at it).
     #[arg(long)]
@@ -114,6 +123,8 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
             Some(list) => list.iter().map(|t| t.trim().to_string()).filter(|t| !t.is_empty()).collect(),
             None => crate::reader::DEFAULT_NA.iter().map(|s| s.to_string()).collect(),
         },
+        group: a.group_column.clone(),
+        exposures: a.neutralize.clone(),
     };
     if a.study.horizons == Some(0) {
         return Err(Failure::input("`--horizons` must be at least 1, got 0"));
@@ -121,6 +132,10 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     let stem = a.panel.file_stem().map_or("panel".into(), |s| s.to_string_lossy().into_owned());
     let out_dir = a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{stem}-measure")));
     let mut read = read_panel(&a.panel, &opts).map_err(Failure::input)?;
+    let covariates = std::mem::take(&mut read.covariates);
+    crate::measure::neutralise::neutralise(&mut read.panel, &covariates);
+    drop(covariates);
+    let neutralised_on: Vec<String> = a.group_column.iter().chain(&a.neutralize).cloned().collect();
     let cap = read.panel.dates / 4;
     let requested = a.study.horizons.unwrap_or(DEFAULT_HORIZONS);
     let l = requested.min(cap);
@@ -141,6 +156,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
         window: a.window as usize,
     };
     let (mut result, fit) = measure(&read, &a.panel, &settings).map_err(Failure::input)?;
+    result.neutralised_on = neutralised_on;
     let name: String = format!("{stem}-calibrated")
         .chars()
         .map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '-' })
@@ -186,6 +202,8 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     let settings = serde_json::json!({
         "panel": a.panel.display().to_string(),
         "columns": {"date": a.date_column, "asset": a.asset_column, "forecast": a.forecast_column, "return": a.return_column},
+        "group_column": a.group_column,
+        "neutralize": a.neutralize,
         "return_timing": result.return_timing,
         "horizons": l,
         "min_assets": a.min_assets,
@@ -400,6 +418,7 @@ pub fn measure(
         calibrated_study: None,
         warnings,
         skipped_dates,
+        neutralised_on: Vec::new(),
         rolling_window: s.window,
         per_date,
     };

@@ -16,6 +16,7 @@ pub mod extras;
 pub mod fit;
 pub mod hac;
 mod masked;
+pub mod neutralise;
 mod panel;
 pub mod rank;
 pub mod rules;

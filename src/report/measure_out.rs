@@ -278,6 +278,8 @@ pub struct MeasureResult {
     pub warnings: Vec<String>,
     /// Dates that gave no lag-1 IC, with the reason.
     pub skipped_dates: Vec<SkippedDate>,
+    /// Columns the forecasts and returns were neutralised on (group first).
+    pub neutralised_on: Vec<String>,
     /// Periods in the rolling-IC chart.
     pub rolling_window: usize,
     /// Every date's figures (`per_date.csv`; not in `measure.json`).
@@ -385,6 +387,12 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
         "{} rows, {} dates ({} used, {} skipped), {} assets; calendar {}{missing}; returns taken as {}; horizons 1–{}.",
         m.rows, m.dates, m.dates_used, m.dates_skipped, m.assets, m.frequency, m.return_timing, m.horizons
     )));
+    if !m.neutralised_on.is_empty() {
+        out.push_str(&paragraph(&format!(
+            "Forecasts and returns neutralised on each date on: {} (least-squares residuals, before any IC).",
+            m.neutralised_on.join(", ")
+        )));
+    }
     for w in &m.warnings {
         out.push_str(&paragraph(&format!("warning: {w}")));
     }
