@@ -104,10 +104,27 @@ fn same_column_twice_and_options_that_do_not_apply_are_refused() {
     let csv = simulated(tmp.path(), "monthly-steady", &["--assets", "30", "--history", "40"]);
     let (code, _, err, _) = measure(&csv, &["--return-column", "forecast"]);
     assert!(code == 2 && err.contains("`forecast` is named as both the forecast and the return column"), "{err}");
-    for opt in [["--assets", "10"], ["--history", "10"], ["--cost-bps", "5"]] {
-        let (code, _, err, _) = measure(&csv, &opt);
-        assert!(code == 2 && err.contains("does not apply to `measure`"), "{err}");
+    let (code, _, err, _) = measure(&csv, &["--cost-bps", "5"]);
+    assert!(code == 2 && err.contains("--cost-bps does not apply to `measure` yet"), "{err}");
+    for opt in [["--assets", "10"], ["--history", "10"]] {
+        let (code, _, err, _) = measure(&csv, &[opt[0], opt[1], "--no-study"]);
+        assert!(code == 2 && err.contains("which --no-study skips"), "{err}");
     }
+}
+
+#[test]
+fn assets_and_history_are_what_ifs_of_the_calibrated_study() {
+    // "With twice the history, how often would I be right?": the study runs
+    // at the new size, says so, and calibrated.toml keeps the panel's own.
+    let tmp = tempfile::tempdir().unwrap();
+    let csv = simulated(tmp.path(), "monthly-steady", &["--assets", "100", "--history", "60", "--seed", "4"]);
+    let (code, out, err, json) = measure(&csv, &["--history", "120", "--paths", "20", "--bootstrap", "10"]);
+    assert_eq!(code, 0, "{err}");
+    let c = &json.unwrap()["calibrated_study"];
+    assert_eq!((c["history"].as_u64(), c["assets"].as_u64()), (Some(120), Some(100)));
+    assert!(out.contains("but with 100 assets × 120 dates instead of the panel's (what-if"), "{out}");
+    let toml = std::fs::read_to_string(csv.with_extension("out").join("calibrated.toml")).unwrap();
+    assert!(toml.contains("history = 60"), "{toml}");
 }
 
 #[test]

@@ -100,17 +100,17 @@ pub struct MeasureArgs {
 
 /// `lagfold measure`.
 pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
-    for (given, flag) in [
-        (a.study.assets.is_some(), "--assets"),
-        (a.study.history.is_some(), "--history"),
-        (!a.study.cost_bps.is_empty(), "--cost-bps"),
-    ] {
-        if given {
-            return Err(Failure::input(format!(
-                "{flag} does not apply to `measure`: breadth and history come from the panel (edit calibrated.toml \
-                 and `lagfold run` it to ask what-if questions)"
-            )));
-        }
+    if !a.study.cost_bps.is_empty() {
+        return Err(Failure::input(
+            "--cost-bps does not apply to `measure` yet: the tranche books are not measured on a user's panel; \
+             `lagfold run calibrated.toml --cost-bps …` gives the simulated answer",
+        ));
+    }
+    if (a.study.assets.is_some() || a.study.history.is_some()) && a.no_study {
+        return Err(Failure::input(
+            "--assets and --history change the calibrated study (what if the panel were broader or longer?), \
+             which --no-study skips; drop one or the other",
+        ));
     }
     let opts = ReadOptions {
         date: a.date_column.clone(),
@@ -186,9 +186,25 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     match calibrated {
         Ok((text, scenario)) => {
             if !a.no_study {
-                let (study, sims) = calibrated_study(scenario, &a.study)?;
+                let what_if = crate::scenario::Overrides {
+                    assets: a.study.assets,
+                    history: a.study.history,
+                    ..Default::default()
+                };
+                let scenario = if what_if.assets.is_some() || what_if.history.is_some() {
+                    crate::scenario::load(&text, "calibrated.toml", &name, &what_if).map_err(Failure::input)?
+                } else {
+                    scenario
+                };
+                let (mut study, sims) = calibrated_study(scenario, &a.study)?;
+                if what_if.assets.is_some() || what_if.history.is_some() {
+                    study.what_if =
+                        Some(format!("{} assets × {} dates instead of the panel's", study.assets, study.history));
+                } else {
+                    // The simulated spread is comparable only for a history like the panel's.
+                    compare_errors(&mut result, &sims);
+                }
                 result.calibrated_study = Some(study);
-                compare_errors(&mut result, &sims);
             }
             files.push(("calibrated.toml".to_string(), text.into_bytes()));
         }
@@ -243,6 +259,9 @@ fn calibrated_study(
     Ok((
         CalibratedStudy {
             scenario_file: "calibrated.toml".into(),
+            assets: setup.scenario.assets,
+            history: setup.scenario.history,
+            what_if: None,
             paths: r.paths,
             true_best_horizon: setup.truth.best_horizon,
             near_hit_rate: rules.map(|x| x.near_hit_rate),

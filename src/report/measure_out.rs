@@ -150,6 +150,12 @@ pub struct CalibratedStudy {
     pub scenario_file: String,
     /// Paths simulated.
     pub paths: usize,
+    /// Breadth simulated.
+    pub assets: usize,
+    /// History simulated.
+    pub history: usize,
+    /// With `--assets` or `--history`: what the study changed, in words.
+    pub what_if: Option<String>,
     /// True optimal horizon of the calibrated scenario.
     pub true_best_horizon: usize,
     /// Per rule (peak, formula, fitted): near-hit rate, its error, mean relative regret.
@@ -442,8 +448,12 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
         )));
     }
     if let Some(c) = &m.calibrated_study {
+        let like = match &c.what_if {
+            Some(w) => format!("A history like this one but with {w} (what-if"),
+            None => "A history like this one (".to_string(),
+        };
         out.push_str(&paragraph(&format!(
-            "A history like this one ({}; {} simulated, true best horizon {}): the peak rule lands within one period \
+            "{like}{}; {} simulated, true best horizon {}): the peak rule lands within one period \
              of the truth in {:.0}% ± {:.0} of them and gives up {:.1}% of the best horizon IC on average (formula \
              {:.0}%, fitted {:.0}%).",
             c.scenario_file,

@@ -57,9 +57,10 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
         ));
     }
     if let Some(c) = &m.calibrated_study {
+        let like = c.what_if.as_ref().map_or(String::new(), |w| format!(" but with {w}"));
         summary.push(format!(
-            "In {} simulated histories built to resemble yours (calibrated.toml), the peak rule landed within one \
-             period of the true best horizon in {}.",
+            "In {} simulated histories built to resemble yours (calibrated.toml){like}, the peak rule landed within \
+             one period of the true best horizon in {}.",
             int("/calibrated_study/paths", c.paths),
             fig("/calibrated_study/near_hit_rate/0", c.near_hit_rate[0], Fmt::Pct(1)),
         ));
