@@ -136,8 +136,6 @@ pub struct Measurement {
     rdm: Vec<f64>,
     /// The power of two the demeaned returns were multiplied by.
     ret_scale: f64,
-    /// Per return row: `Σ (r̃·2^{−e})²` with the row's own power of two `2^{−e}`, and that power.
-    row_ss: Vec<(f64, f64)>,
     rank_f: Vec<f64>,
     rank_r: Vec<f64>,
     cross: Vec<f64>,
@@ -146,14 +144,29 @@ pub struct Measurement {
     order: Vec<usize>,
 }
 
-/// Writes `src` minus its mean into `dst`, scaled by a power of two so that
-/// the largest magnitude lies in `[0.5, 1)`: exact, and the sums of squares
-/// that follow can neither overflow nor underflow whatever the data's units.
-fn standardise_into(src: &[f64], dst: &mut [f64]) {
+/// Writes `src` minus its mean into `dst`.
+fn demean_into(src: &[f64], dst: &mut [f64]) {
     let mean = sums::sum(src) / src.len() as f64;
     dst.iter_mut().zip(src).for_each(|(d, s)| *d = s - mean);
-    let scale = sums::pow2_scale(dst.iter().fold(0.0, |m, x| x.abs().max(m)));
-    dst.iter_mut().for_each(|d| *d *= scale);
+}
+
+/// Largest magnitude of a slice.
+fn max_abs(x: &[f64]) -> f64 {
+    x.iter().fold(0.0, |m, v| v.abs().max(m))
+}
+
+/// Whether a sum of squares is a usable normal number (neither overflowed
+/// nor near underflow); otherwise the values are rescaled first.
+fn usable(ss: f64) -> bool {
+    ss.is_finite() && ss > 1e-250
+}
+
+/// Multiplies `x` by the power of two that brings its largest magnitude into
+/// `[0.5, 1)` (exact); returns that power.
+fn rescale(x: &mut [f64]) -> f64 {
+    let scale = sums::pow2_scale(max_abs(x));
+    x.iter_mut().for_each(|v| *v *= scale);
+    scale
 }
 
 impl Measurement {
@@ -224,34 +237,42 @@ impl Measurement {
         }
     }
 
-    /// Pearson lagged and horizon ICs, scale-free: each forecast row is
-    /// demeaned and multiplied by its own power of two, the returns are
-    /// demeaned per row and multiplied by one common power of two (horizon
-    /// sums add rows, so they must share a scale), and each lagged IC divides
-    /// by its return row's norm computed at that row's own power of two. All
-    /// scalings are exact, so nothing overflows or underflows for data in any
-    /// units (tested at 1e±200) and results equal the unscaled arithmetic.
+    /// Pearson lagged and horizon ICs, scale-free at no cost for ordinary
+    /// data: each forecast row is demeaned and, when its sum of squares
+    /// overflows or nears underflow, multiplied by its own power of two; the
+    /// returns are demeaned per row and, when the largest row's sum of squares
+    /// does, all multiplied by one common power of two (horizon sums add
+    /// rows, so they must share a scale) before the products are redone; a
+    /// lagged IC whose return row underflows at that scale takes the row's
+    /// norm at its own power of two. All scalings are exact, so nothing
+    /// overflows or underflows for data in any units (tested at 1e±200) and
+    /// results equal the unscaled arithmetic.
     fn pearson_and_horizon(&mut self, panel: &Panel, n: usize, t: usize) {
         let l = self.horizons;
         self.fdm.resize((t - 1) * n, 0.0);
         for (date, f_out) in self.fdm.chunks_exact_mut(n).enumerate() {
-            standardise_into(panel.forecast_row(date), f_out);
+            demean_into(panel.forecast_row(date), f_out);
+            if !usable(sums::sum_sq(f_out)) {
+                rescale(f_out);
+            }
         }
         self.rdm.resize(panel.returns.len(), 0.0);
         for (src, dst) in panel.returns.chunks_exact(n).zip(self.rdm.chunks_exact_mut(n)) {
-            let mean = sums::sum(src) / n as f64;
-            dst.iter_mut().zip(src).for_each(|(d, s)| *d = s - mean);
+            demean_into(src, dst);
         }
-        self.ret_scale = sums::pow2_scale(self.rdm.iter().fold(0.0, |m, x| x.abs().max(m)));
-        self.row_ss.clear();
-        for row in self.rdm.chunks_exact(n) {
-            let own = sums::pow2_scale(row.iter().fold(0.0, |m, x| x.abs().max(m)));
-            self.row_ss.push((sums::sum_of(row, |v| (v * own) * (v * own)), own));
-        }
-        let scale = self.ret_scale;
-        self.rdm.iter_mut().for_each(|x| *x *= scale);
+        self.ret_scale = 1.0;
         banded_products(&self.fdm, &self.rdm, n, l, &mut self.tmp, &mut self.cross);
         banded_products(&self.rdm, &self.rdm, n, l, &mut self.tmp, &mut self.gram);
+        // Returns in extreme units (the largest row's sum of squares overflows
+        // or nears underflow): one common power of two, and the products again.
+        let largest =
+            self.gram.iter().step_by(l).fold(0.0f64, |m, g| if g.is_nan() { f64::INFINITY } else { m.max(*g) });
+        if !usable(largest) {
+            self.ret_scale = rescale(&mut self.rdm);
+            banded_products(&self.fdm, &self.rdm, n, l, &mut self.tmp, &mut self.cross);
+            banded_products(&self.rdm, &self.rdm, n, l, &mut self.tmp, &mut self.gram);
+        }
+        let scale = self.ret_scale;
         self.lagged.reset(l, t);
         self.horizon.reset(l, t);
         let (cross, gram) = (&self.cross, &self.gram);
@@ -262,11 +283,20 @@ impl Measurement {
             for k in 1..=l.min(t - 1 - date) {
                 let r = date + k - 1; // return row of lag k
                 let c = cross[date * l + k - 1];
-                let (own_ss, own) = self.row_ss[r];
+                let r_ss = gram[r * l];
                 cov += c;
                 // ‖Σ_{j<k} r_j‖² grows by ‖r‖² + 2·Σ_{j<k−1} ⟨r_{date+j}, r⟩
                 var += gram[r * l] + 2.0 * (0..k - 1).map(|j| gram[(date + j) * l + (k - 1 - j)]).sum::<f64>();
-                self.lagged.push(k, date, c * (own / scale) / (f_ss * own_ss).sqrt());
+                let lag = if r_ss > 1e-250 {
+                    c / (f_ss * r_ss).sqrt()
+                } else {
+                    // A row far smaller than the largest (its squares underflow
+                    // at the common scale): its norm at its own power of two.
+                    let row = &self.rdm[r * n..(r + 1) * n];
+                    let own = sums::pow2_scale(max_abs(row) / scale) / scale;
+                    c * own / (f_ss * sums::sum_of(row, |v| (v * own) * (v * own))).sqrt()
+                };
+                self.lagged.push(k, date, lag);
                 self.horizon.push(k, date, cov / (f_ss * var).sqrt());
             }
         }
