@@ -2,6 +2,8 @@
 //! lets a non-finite figure reach an output; calendar gaps, return timing,
 //! the success ratio, extreme units and the memory budget.
 
+mod common;
+
 use assert_cmd::Command;
 use serde_json::Value;
 use std::path::{Path, PathBuf};
@@ -271,13 +273,8 @@ fn the_success_ratio_follows_sheppard_for_scores_and_grinold_kahn_for_two_values
     assert!((implied - observed).abs() < 0.008, "Sheppard {implied} vs observed {observed}");
     // Two-valued forecasts of two-valued returns that agree 60% of the time:
     // Grinold and Kahn's (1+IC)/2 is the observed share.
-    let mut x: u64 = 0x2545_F491_4F6C_DD1D;
-    let mut u = || {
-        x ^= x << 13;
-        x ^= x >> 7;
-        x ^= x << 17;
-        (x >> 11) as f64 / (1u64 << 53) as f64
-    };
+    let mut uniform = common::uniforms(0x2545_F491_4F6C_DD1D);
+    let mut u = || uniform();
     let mut text = String::from("date,asset,forecast,return\n");
     for m in 0..40u32 {
         for a in 0..200 {

@@ -4,6 +4,8 @@
 //! the values; numpy 2.4), and a forecast that is pure sector tilt has no IC
 //! once neutralised.
 
+mod common;
+
 use lagfold::measure::Measurement;
 use lagfold::measure::neutralise::neutralise;
 use lagfold::reader::{ReadOptions, read_panel};
@@ -51,13 +53,8 @@ fn a_pure_sector_tilt_has_no_ic_once_neutralised() {
     // noise: before neutralisation the IC is large, after it the lag-1 IC's
     // mean is zero within four standard errors (EWC, 95 % interval / 1.96).
     let tmp = tempfile::tempdir().unwrap();
-    let mut x: u64 = 0x1234_5678_9ABC_DEF1;
-    let mut u = || {
-        x ^= x << 13;
-        x ^= x >> 7;
-        x ^= x << 17;
-        (x >> 11) as f64 / (1u64 << 53) as f64 - 0.5
-    };
+    let mut uniform = common::uniforms(0x1234_5678_9ABC_DEF1);
+    let mut u = || uniform() - 0.5;
     let mut text = String::from("date,asset,forecast,return,sector\n");
     for m in 0..48u32 {
         let tilt: Vec<f64> = (0..5).map(|_| u()).collect();

@@ -38,3 +38,15 @@ pub fn mean_se(xs: &[f64]) -> (f64, f64) {
     let v = xs.iter().map(|x| (x - m).powi(2)).sum::<f64>() / (n - 1.0);
     (m, (v / n).sqrt())
 }
+
+/// A xorshift stream of uniforms on `[0, 1)` from `seed` (Marsaglia, 2003):
+/// invented test data that needs no simulator.
+pub fn uniforms(seed: u64) -> impl FnMut() -> f64 {
+    let mut x = seed | 1;
+    move || {
+        x ^= x << 13;
+        x ^= x >> 7;
+        x ^= x << 17;
+        (x >> 11) as f64 / (1u64 << 53) as f64
+    }
+}
