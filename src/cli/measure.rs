@@ -387,6 +387,8 @@ pub fn measure(
     let timing = timing_check(p, &m, min, s.backward, &mut warnings);
     let per_date = per_date_table(read, &m, min);
     let kurtosis = extras::return_excess_kurtosis(p, min).and_then(finite);
+    let ic_volatility = extras::ic_volatility(p, min).and_then(finite);
+    let ic_persistence = extras::ic_persistence(p, min).and_then(finite);
     let skipped_dates = per_date
         .dates
         .iter()
@@ -416,13 +418,13 @@ pub fn measure(
         success_ratio,
         timing,
         forecast_autocorrelation: extras::forecast_autocorrelation(p, min).and_then(finite),
-        ic_volatility: extras::ic_volatility(p, min).and_then(finite),
-        ic_persistence: extras::ic_persistence(p, min).and_then(finite),
+        ic_volatility,
+        ic_persistence,
         return_excess_kurtosis: kurtosis,
         tails_dof: kurtosis.and_then(|k| {
-            let vol = extras::ic_volatility(p, min).unwrap_or(0.0);
-            let psi = extras::ic_persistence(p, min).unwrap_or(0.0);
-            extras::tail_dof(k, extras::ic_vol_parameter(vol, psi, p.dates - 1))
+            let model_vol =
+                extras::ic_vol_parameter(ic_volatility.unwrap_or(0.0), ic_persistence.unwrap_or(0.0), p.dates - 1);
+            extras::tail_dof(k, model_vol)
         }),
         fitted_family,
         fitted_shape,
