@@ -41,15 +41,17 @@ pub fn ic_volatility(p: &Panel, min_assets: usize) -> Option<f64> {
         return None;
     }
     let m = ics.len() as f64;
-    let mean = ics.iter().map(|c| c.0).sum::<f64>() / m;
-    let var = ics.iter().map(|c| (c.0 - mean).powi(2)).sum::<f64>() / (m - 1.0);
-    let noise = ics.iter().map(|c| 1.0 / (c.1 as f64 - 1.0)).sum::<f64>() / m;
+    let mean = ics.iter().map(|c| c.1).sum::<f64>() / m;
+    let var = ics.iter().map(|c| (c.1 - mean).powi(2)).sum::<f64>() / (m - 1.0);
+    let noise = ics.iter().map(|c| 1.0 / (c.2 as f64 - 1.0)).sum::<f64>() / m;
     Some((var - noise).max(0.0).sqrt())
 }
 
-/// Per-date lag-1 ICs with their number of pairs (dates with at least `min_assets`).
-fn lag1_ics(p: &Panel, min_assets: usize) -> Vec<(f64, usize)> {
-    (0..p.dates - 1).filter_map(|t| corr_finite(p.forecast_row(t), p.return_row(t), min_assets)).collect()
+/// Per-date lag-1 ICs as `(date, IC, pairs)` (dates with at least `min_assets` pairs).
+fn lag1_ics(p: &Panel, min_assets: usize) -> Vec<(usize, f64, usize)> {
+    (0..p.dates - 1)
+        .filter_map(|t| corr_finite(p.forecast_row(t), p.return_row(t), min_assets).map(|(r, n)| (t, r, n)))
+        .collect()
 }
 
 /// Persistence of the IC beyond sampling noise: the first autocorrelation of
@@ -59,9 +61,7 @@ fn lag1_ics(p: &Panel, min_assets: usize) -> Vec<(f64, usize)> {
 /// a date, is independent from date to date); `None` when that share is
 /// below a tenth (no persistence can be told from noise). Clamped to `[0, 0.95]`.
 pub fn ic_persistence(p: &Panel, min_assets: usize) -> Option<f64> {
-    let ics: Vec<(usize, f64, usize)> = (0..p.dates - 1)
-        .filter_map(|t| corr_finite(p.forecast_row(t), p.return_row(t), min_assets).map(|(r, n)| (t, r, n)))
-        .collect();
+    let ics = lag1_ics(p, min_assets);
     let m = ics.len() as f64;
     if ics.len() < 8 {
         return None;
