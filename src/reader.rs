@@ -21,8 +21,9 @@ pub struct ReadOptions {
     pub date: String,
     /// Asset identifier column.
     pub asset: String,
-    /// Forecast column.
-    pub forecast: String,
+    /// Forecast columns, the first the primary signal; empty: every numeric
+    /// column not named in another role.
+    pub forecasts: Vec<String>,
     /// Return column.
     pub ret: String,
     /// Returns are over the period ending at the row's date.
@@ -71,7 +72,7 @@ impl Default for ReadOptions {
         Self {
             date: "date".into(),
             asset: "asset".into(),
-            forecast: "forecast".into(),
+            forecasts: vec!["forecast".into()],
             ret: "return".into(),
             backward: false,
             max_bytes: default_max_bytes(),
@@ -179,6 +180,19 @@ pub enum ReadError {
         /// Dates needed.
         needed: usize,
     },
+    /// No numeric column is left to measure as a forecast.
+    #[error(
+        "{path}, line 1: no numeric column is left to measure as a forecast besides the date, asset, return and \
+         neutralisation columns{skipped} (the header has: {header}); name one with --forecast-column"
+    )]
+    NoSignal {
+        /// The file.
+        path: PathBuf,
+        /// The columns passed over as not numeric, in words.
+        skipped: String,
+        /// The header as found.
+        header: String,
+    },
     /// Two roles given the same column.
     #[error(
         "{path}: column `{column}` is named as both the {first} and the {second} column; name each role's own column"
@@ -216,8 +230,12 @@ pub enum ReadError {
 /// A panel read from a file, with what the reader noticed.
 #[derive(Debug, Clone)]
 pub struct ReadPanel {
-    /// The panel (forward returns), NaN where a value is missing.
+    /// The panel of the first signal (forward returns), NaN where a value is missing.
     pub panel: Panel,
+    /// The names of the forecast columns read, the first in `panel`.
+    pub signals: Vec<String>,
+    /// The forecasts of the other signals (`signals[1..]`), each `dates × assets`.
+    pub other_forecasts: Vec<Vec<f64>>,
     /// The dates, ascending.
     pub dates: Vec<String>,
     /// Data rows read.
@@ -350,8 +368,9 @@ pub fn parse_date(s: &str) -> Option<(i64, &str)> {
 /// # Errors
 /// Every [`ReadError`], naming the file and line.
 pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadError> {
-    let mut roles =
-        vec![(&opts.date, "date"), (&opts.asset, "asset"), (&opts.forecast, "forecast"), (&opts.ret, "return")];
+    let mut roles = vec![(&opts.date, "date"), (&opts.asset, "asset")];
+    roles.extend(opts.forecasts.iter().map(|f| (f, "forecast")));
+    roles.push((&opts.ret, "return"));
     roles.extend(opts.group.iter().map(|g| (g, "group")));
     roles.extend(opts.exposures.iter().map(|x| (x, "neutralize")));
     for (i, a) in roles.iter().enumerate() {
@@ -367,14 +386,10 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     let io = |e: &dyn std::fmt::Display| ReadError::Io { path: path.to_path_buf(), message: e.to_string() };
     let mut rdr = csv::ReaderBuilder::new().trim(csv::Trim::All).from_path(path).map_err(|e| io(&e))?;
     let header = rdr.headers().map_err(|e| io(&e))?.clone();
-    let mut wanted = vec![
-        (&opts.date, "date-column"),
-        (&opts.asset, "asset-column"),
-        (&opts.forecast, "forecast-column"),
-        (&opts.ret, "return-column"),
-    ];
+    let mut wanted = vec![(&opts.date, "date-column"), (&opts.asset, "asset-column"), (&opts.ret, "return-column")];
     wanted.extend(opts.group.iter().map(|g| (g, "group-column")));
     wanted.extend(opts.exposures.iter().map(|x| (x, "neutralize")));
+    wanted.extend(opts.forecasts.iter().map(|f| (f, "forecast-column")));
     let found: Vec<Option<usize>> =
         wanted.iter().map(|(name, _)| header.iter().position(|h| h == name.as_str())).collect();
     let missing: Vec<String> = wanted
@@ -390,13 +405,29 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
             header: header.iter().collect::<Vec<_>>().join(", "),
         });
     }
-    let [cd, ca, cf, cr] = [0, 1, 2, 3].map(|i| found[i].unwrap_or_default());
-    let cg = opts.group.as_ref().map(|_| found[4].unwrap_or_default());
-    let cx: Vec<usize> = found[4 + usize::from(cg.is_some())..].iter().map(|c| c.unwrap_or_default()).collect();
+    let [cd, ca, cr] = [0, 1, 2].map(|i| found[i].unwrap_or_default());
+    let cg = opts.group.as_ref().map(|_| found[3].unwrap_or_default());
+    let after_group = 3 + usize::from(cg.is_some());
+    let k = opts.exposures.len();
+    let cx: Vec<usize> = found[after_group..after_group + k].iter().map(|c| c.unwrap_or_default()).collect();
+    // Forecast columns: those named, or every column in no other role (kept if every value is a number).
+    let every = opts.forecasts.is_empty();
+    let (cf, mut signal_names): (Vec<usize>, Vec<String>) = if every {
+        let named: Vec<usize> = found.iter().flatten().copied().collect();
+        (0..header.len()).filter(|c| !named.contains(c)).map(|c| (c, header[c].to_string())).unzip()
+    } else {
+        (found[after_group + k..].iter().map(|c| c.unwrap_or_default()).collect(), opts.forecasts.clone())
+    };
+    let mut numeric = vec![true; cf.len()];
+    let mut seen_value = vec![false; cf.len()];
+    let nsig = cf.len();
     let mut group_ids: HashMap<String, u32> = HashMap::new();
     let (mut row_groups, mut row_exposures): (Vec<u32>, Vec<f64>) = (Vec::new(), Vec::new());
-    let per_row_extra = (if cg.is_some() { 4 } else { 0 }) + 8 * cx.len() as u64;
+    // Per date × asset cell: the covariates and the other signals' matrices; per row, every forecast read.
+    let per_row_extra = (if cg.is_some() { 4 } else { 0 }) + 8 * (cx.len() + nsig.saturating_sub(1)) as u64;
     let per_cell = BYTES_PER_CELL + per_row_extra;
+    let per_row = 24 + per_row_extra + 8;
+    let mut row_forecasts: Vec<f64> = Vec::new();
     let tokens = if opts.na.is_empty() {
         "an empty field".to_string()
     } else {
@@ -406,8 +437,8 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     let mut first_time: Option<(String, u64)> = None;
     let mut date_ids: HashMap<i64, u32> = HashMap::new();
     let mut asset_ids: HashMap<String, u32> = HashMap::new();
-    // (date id, asset id, line, row, forecast, return): 32 bytes a row.
-    let mut cells: Vec<(u32, u32, u32, u32, f64, f64)> = Vec::new();
+    // (date id, asset id, line, row, return): 24 bytes a row.
+    let mut cells: Vec<(u32, u32, u32, u32, f64)> = Vec::new();
     let mut unsorted = false;
     let mut last_day = i64::MIN;
     let mut rows = 0u64;
@@ -452,14 +483,34 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
             }
             Some(_) => {}
         }
-        let (f, r) = (number(cf, &opts.forecast)?, number(cr, &opts.ret)?);
+        for (j, &c) in cf.iter().enumerate() {
+            let v = if !numeric[j] {
+                f64::NAN
+            } else if every {
+                // A column that holds anything but numbers is not a signal: pass it over.
+                let t = field(c);
+                match t.parse::<f64>() {
+                    Ok(v) if v.is_finite() => v,
+                    _ if is_na(t) => f64::NAN,
+                    _ => {
+                        numeric[j] = false;
+                        f64::NAN
+                    }
+                }
+            } else {
+                number(c, &signal_names[j])?
+            };
+            seen_value[j] |= !v.is_nan();
+            row_forecasts.push(v);
+        }
+        let r = number(cr, &opts.ret)?;
         unsorted |= day < last_day;
         last_day = last_day.max(day);
         let n_dates = date_ids.len() as u32;
         let d = *date_ids.entry(day).or_insert(n_dates);
         let n_assets = asset_ids.len() as u32;
         let a = *asset_ids.entry(field(ca).to_string()).or_insert(n_assets);
-        cells.push((d, a, u32::try_from(line).unwrap_or(u32::MAX), (rows - 1) as u32, f, r));
+        cells.push((d, a, u32::try_from(line).unwrap_or(u32::MAX), (rows - 1) as u32, r));
         if let Some(c) = cg {
             let label = field(c);
             let n_groups = group_ids.len() as u32;
@@ -473,13 +524,12 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
             row_exposures.push(number(c, name)?);
         }
         let (t, n) = (date_ids.len() as u64, asset_ids.len() as u64);
-        if rows.is_multiple_of(4096) && (t * n * per_cell).max(rows * (32 + per_row_extra)) > opts.max_bytes {
+        if rows.is_multiple_of(4096) && (t * n * per_cell).max(rows * per_row) > opts.max_bytes {
             return Err(too_large(path, t as usize, n as usize, opts.max_bytes, per_cell));
         }
     }
     // Duplicates: sort by (date, asset, line) in place and compare neighbours.
     cells.sort_unstable_by_key(|c| (c.0, c.1, c.2));
-    let k = cx.len();
     if let Some(w) = cells.windows(2).find(|w| (w[0].0, w[0].1) == (w[1].0, w[1].1)) {
         let day = date_ids.iter().find(|(_, id)| **id == w[1].0).map_or(0, |(z, _)| *z);
         let (y, m, d) = crate::calendar::civil_from_days(day);
@@ -500,6 +550,31 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         return Err(ReadError::TooShort { path: path.to_path_buf(), dates: days.len(), needed: MIN_DATES });
     }
     let mut warnings = Vec::new();
+    // The signals kept: every named one; in `every` mode the columns of numbers with at least one value.
+    let keep: Vec<usize> = (0..nsig).filter(|&j| !every || (numeric[j] && seen_value[j])).collect();
+    if every {
+        let passed: Vec<String> =
+            (0..nsig).filter(|j| !keep.contains(j)).map(|j| format!("`{}`", signal_names[j])).collect();
+        if keep.is_empty() {
+            return Err(ReadError::NoSignal {
+                path: path.to_path_buf(),
+                skipped: if passed.is_empty() {
+                    String::new()
+                } else {
+                    format!(" ({} hold text or no values)", passed.join(", "))
+                },
+                header: header.iter().collect::<Vec<_>>().join(", "),
+            });
+        }
+        if !passed.is_empty() {
+            warnings.push(format!(
+                "not measured as signals (text or no values): {}; measured: {}",
+                passed.join(", "),
+                keep.iter().map(|&j| format!("`{}`", signal_names[j])).collect::<Vec<_>>().join(", ")
+            ));
+        }
+    }
+    signal_names = keep.iter().map(|&j| signal_names[j].clone()).collect();
     if unsorted {
         warnings.push("rows are not sorted by date; they were sorted (dates ascending)".to_string());
     }
@@ -570,9 +645,14 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     };
     let mut covariates =
         Covariates { groups: cg.map(|_| vec![u32::MAX; t * n]), exposures: vec![vec![f64::NAN; t * n]; k] };
-    for (d, a, _, src, f, r) in cells {
+    let mut other_forecasts = vec![vec![f64::NAN; t * n]; keep.len() - 1];
+    for (d, a, _, src, r) in cells {
         let (row, a) = (order[d as usize], a as usize);
-        panel.forecasts[row * n + a] = f;
+        let values = &row_forecasts[src as usize * nsig..(src as usize + 1) * nsig];
+        panel.forecasts[row * n + a] = values[keep[0]];
+        for (x, &j) in other_forecasts.iter_mut().zip(&keep[1..]) {
+            x[row * n + a] = values[j];
+        }
         if let Some(g) = covariates.groups.as_mut() {
             g[row * n + a] = row_groups[src as usize];
         }
@@ -592,6 +672,8 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     }
     Ok(ReadPanel {
         panel,
+        signals: signal_names,
+        other_forecasts,
         dates,
         rows,
         warnings,

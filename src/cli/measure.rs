@@ -53,9 +53,17 @@ pub struct MeasureArgs {
     /// Name of the asset column.
     #[arg(long, default_value = "asset")]
     pub asset_column: String,
-    /// Name of the forecast column.
-    #[arg(long, default_value = "forecast")]
-    pub forecast_column: String,
+    /// Name of the forecast column; several, comma-separated, are measured
+    /// in one pass and compared (the first in full) [default: forecast].
+    #[arg(long, value_delimiter = ',', conflicts_with = "every_signal")]
+    pub forecast_column: Option<Vec<String>>,
+    /// Measure every numeric column not named in another role as a signal.
+    #[arg(long)]
+    pub every_signal: bool,
+    /// A blend to measure beside the signals: weights on each date's
+    /// z-scores of the named columns, comma-separated (fast=0.5,slow=0.5).
+    #[arg(long, value_delimiter = ',')]
+    pub blend: Vec<String>,
     /// Name of the return column.
     #[arg(long, default_value = "return")]
     pub return_column: String,
@@ -112,10 +120,26 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
              which --no-study skips; drop one or the other",
         ));
     }
+    let blend =
+        if a.blend.is_empty() { Vec::new() } else { super::compare::parse_blend(&a.blend).map_err(Failure::input)? };
+    // The columns measured: those named; else the blend's; else `forecast`. Blended columns are read too.
+    let mut forecasts: Vec<String> = match (&a.forecast_column, a.every_signal) {
+        (_, true) => Vec::new(),
+        (Some(list), false) => list.iter().map(|c| c.trim().to_string()).collect(),
+        (None, false) if !blend.is_empty() => Vec::new(),
+        (None, false) => vec!["forecast".into()],
+    };
+    if !a.every_signal {
+        for w in &blend {
+            if !forecasts.contains(&w.signal) {
+                forecasts.push(w.signal.clone());
+            }
+        }
+    }
     let opts = ReadOptions {
         date: a.date_column.clone(),
         asset: a.asset_column.clone(),
-        forecast: a.forecast_column.clone(),
+        forecasts,
         ret: a.return_column.clone(),
         backward: a.backward_returns,
         max_bytes: a.max_memory.unwrap_or_else(crate::reader::default_max_bytes),
@@ -134,6 +158,9 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     let mut read = read_panel(&a.panel, &opts).map_err(Failure::input)?;
     let covariates = std::mem::take(&mut read.covariates);
     crate::measure::neutralise::neutralise(&mut read.panel, &covariates);
+    for f in &mut read.other_forecasts {
+        crate::measure::neutralise::neutralise_forecasts(f, read.panel.assets, &covariates);
+    }
     drop(covariates);
     let neutralised_on: Vec<String> = a.group_column.iter().chain(&a.neutralize).cloned().collect();
     let cap = read.panel.dates / 4;
@@ -157,6 +184,10 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     };
     let (mut result, fit) = measure(&read, &a.panel, &settings).map_err(Failure::input)?;
     result.neutralised_on = neutralised_on;
+    let mut warnings = Vec::new();
+    result.comparison =
+        super::compare::compare(&mut read, &result, blend, &settings, &mut warnings).map_err(Failure::input)?;
+    result.warnings.extend(warnings);
     let name: String = format!("{stem}-calibrated")
         .chars()
         .map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '-' })
@@ -213,11 +244,15 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     files.push(("measure.json".into(), report::measure_json(&result)));
     files.push(("measure_lags.csv".into(), report::measure_csv(&result)));
     files.push(("per_date.csv".into(), report::per_date_csv(&result)));
+    if let Some(c) = &result.comparison {
+        files.push(("signals.csv".into(), report::signals_csv(c)));
+    }
     let charts = super::charts(a.study.no_charts, || report::measure_charts(&result))?;
     files.extend(charts.files);
     let settings = serde_json::json!({
         "panel": a.panel.display().to_string(),
-        "columns": {"date": a.date_column, "asset": a.asset_column, "forecast": a.forecast_column, "return": a.return_column},
+        "columns": {"date": a.date_column, "asset": a.asset_column, "forecast": result.comparison.as_ref().map_or(vec![result.signal.clone()], |c| c.signals.iter().filter(|s| s.kind == "signal").map(|s| s.name.clone()).collect()), "return": a.return_column},
+        "blend": a.blend,
         "group_column": a.group_column,
         "neutralize": a.neutralize,
         "return_timing": result.return_timing,
@@ -325,27 +360,36 @@ fn range_90(resampled: &[[Option<usize>; 3]], i: usize) -> Option<[usize; 2]> {
     (!v.is_empty()).then(|| [q(0.05), q(0.95)])
 }
 
-/// Every figure of a read panel, and the fitted decay curve (`None` when the
-/// lagged ICs cannot be fitted).
-///
-/// # Errors
-/// A message naming the file, why nothing can be measured and the fix, when
-/// no date is usable.
-pub fn measure(
-    read: &crate::reader::ReadPanel,
-    file: &Path,
-    s: &Settings,
-) -> Result<(MeasureResult, Option<fit::Fit>), String> {
-    let (p, l, min) = (&read.panel, s.horizons, s.min_assets);
-    let mut m = Measurement::new(l, true).with_min_assets(min);
+/// One signal's curves, rule choices and bootstrap: what the full
+/// measurement and the comparison of several signals share.
+pub(crate) struct Core {
+    /// The per-date figures.
+    pub m: Measurement,
+    /// Dates with a lag-1 IC.
+    pub used: usize,
+    /// Lagged ICs with EWC errors.
+    pub lagged_ic: Curve,
+    /// Horizon ICs with EWC errors.
+    pub horizon_ic: Curve,
+    /// Each rule's horizon (peak, formula, fitted).
+    pub chosen: [Option<usize>; 3],
+    /// The fitted decay curve, if one fits.
+    pub best: Option<fit::Fit>,
+    /// The stationary bootstrap of the choices.
+    pub bootstrap: Bootstrap,
+}
+
+/// Measures one signal's panel; `None` when no date gives a lag-1 IC.
+pub(crate) fn core(p: &Panel, s: &Settings, with_rank: bool) -> Option<Core> {
+    let l = s.horizons;
+    let mut m = Measurement::new(l, with_rank).with_min_assets(s.min_assets);
     m.update(p);
     let used = m.lagged.series(1).len();
     if used == 0 {
-        return Err(format!("{}: {}", file.display(), extras::why_unmeasurable(p, min)));
+        return None;
     }
     let lagged_ic = Curve::from_per_date(&m.lagged, false);
     let horizon_ic = Curve::from_per_date(&m.horizon, true);
-    let rank_ic = Curve::from_per_date(&m.rank_lagged, false);
     // The rules and the fit use the study's Newey–West errors as weights, as on simulated panels.
     let (lag_mean, lag_se) = m.lagged.means_and_se(false);
     let hor_mean = horizon_ic.means_or_nan();
@@ -370,6 +414,25 @@ pub fn measure(
         range_90: std::array::from_fn(|i| range_90(&resampled, i)),
         choice_counts: counts,
     };
+    Some(Core { m, used, lagged_ic, horizon_ic, chosen, best, bootstrap })
+}
+
+/// Every figure of a read panel, and the fitted decay curve (`None` when the
+/// lagged ICs cannot be fitted).
+///
+/// # Errors
+/// A message naming the file, why nothing can be measured and the fix, when
+/// no date is usable.
+pub fn measure(
+    read: &crate::reader::ReadPanel,
+    file: &Path,
+    s: &Settings,
+) -> Result<(MeasureResult, Option<fit::Fit>), String> {
+    let (p, l, min) = (&read.panel, s.horizons, s.min_assets);
+    let Some(Core { m, used, lagged_ic, horizon_ic, chosen, best, bootstrap }) = core(p, s, true) else {
+        return Err(format!("{}: {}", file.display(), extras::why_unmeasurable(p, min)));
+    };
+    let rank_ic = Curve::from_per_date(&m.rank_lagged, false);
     let (agree, total) = sign::sign_agreement(p, 1, min);
     let ic1 = lagged_ic.mean[0];
     let binary = extras::two_valued(p);
@@ -401,6 +464,7 @@ pub fn measure(
     };
     let result = MeasureResult {
         file: file.display().to_string(),
+        signal: read.signals[0].clone(),
         rows: read.rows,
         dates: p.dates,
         assets: p.assets,
@@ -441,6 +505,7 @@ pub fn measure(
         skipped_dates,
         neutralised_on: Vec::new(),
         rolling_window: s.window,
+        comparison: None,
         per_date,
     };
     Ok((result, best))

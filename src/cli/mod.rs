@@ -1,6 +1,7 @@
 //! The command line, apart from the engine: parse options, read the scenario,
 //! run, write, report. Exit codes: 0 ok, 1 failure, 2 bad input.
 
+mod compare;
 mod measure;
 mod panel;
 mod plan;

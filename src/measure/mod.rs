@@ -10,6 +10,7 @@
 //! - means over dates with overlap-aware standard errors ([`hac`]).
 
 mod banded;
+pub mod blend;
 pub mod bootstrap;
 pub mod ewc;
 pub mod extras;

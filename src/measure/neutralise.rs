@@ -106,6 +106,17 @@ pub fn neutralise(panel: &mut Panel, cov: &Covariates) {
     panel.has_missing = panel.forecasts.iter().chain(&panel.returns).any(|x| x.is_nan());
 }
 
+/// Neutralises one more forecast matrix (`dates × assets`, row-major) on
+/// `cov`, as [`neutralise`] does the panel's own forecasts.
+pub fn neutralise_forecasts(forecasts: &mut [f64], assets: usize, cov: &Covariates) {
+    if cov.is_empty() || assets == 0 {
+        return;
+    }
+    for (t, row) in forecasts.chunks_mut(assets).enumerate() {
+        residualise_row(row, cov, t * assets);
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -223,6 +223,9 @@ impl PerDateTable {
 pub struct MeasureResult {
     /// The file measured.
     pub file: String,
+    /// The forecast column measured in full (the first named); the other
+    /// signals and the blend are in `comparison`.
+    pub signal: String,
     /// Data rows read.
     pub rows: u64,
     /// Dates in the file.
@@ -288,6 +291,8 @@ pub struct MeasureResult {
     pub neutralised_on: Vec<String>,
     /// Periods in the rolling-IC chart.
     pub rolling_window: usize,
+    /// Every signal side by side, and the blend (`None` with one signal and no blend).
+    pub comparison: Option<super::compare_out::SignalComparison>,
     /// Every date's figures (`per_date.csv`; not in `measure.json`).
     #[serde(skip)]
     pub per_date: PerDateTable,
@@ -330,8 +335,9 @@ pub fn measure_csv(m: &MeasureResult) -> Vec<u8> {
 }
 
 /// `per_date.csv`: one row per date — the assets used, the IC at every lag,
-/// the rank IC at every lag, the horizon IC at every horizon, and why a date
-/// was skipped; empty fields where a figure is not measured.
+/// the rank IC at every lag, the horizon IC at every horizon (all of the
+/// first signal), the other signals' and the blend's lag-1 ICs, and why a
+/// date was skipped; empty fields where a figure is not measured.
 pub fn per_date_csv(m: &MeasureResult) -> Vec<u8> {
     let t = &m.per_date;
     let l = m.horizons;
@@ -340,6 +346,10 @@ pub fn per_date_csv(m: &MeasureResult) -> Vec<u8> {
     header.extend((1..=l).map(|k| format!("ic_lag{k}")));
     header.extend((1..=l).map(|k| format!("rank_ic_lag{k}")));
     header.extend((1..=l).map(|n| format!("horizon_ic_{n}")));
+    // The other signals' and the blend's lag-1 ICs.
+    let others: Vec<&super::compare_out::SignalSummary> =
+        m.comparison.iter().flat_map(|c| c.signals.iter().skip(1)).collect();
+    header.extend(others.iter().map(|s| format!("ic_lag1_{}", s.name)));
     header.push("skipped".into());
     w.write_record(&header).expect("in-memory CSV");
     let o = |x: &Option<f64>| x.map(|v| format!("{v:.8}")).unwrap_or_default();
@@ -348,6 +358,7 @@ pub fn per_date_csv(m: &MeasureResult) -> Vec<u8> {
         for table in [&t.lagged, &t.rank, &t.horizon] {
             row.extend(table[i].iter().map(o));
         }
+        row.extend(others.iter().map(|s| o(&s.lag1_by_date[i])));
         row.push(t.skipped[i].clone().unwrap_or_default());
         w.write_record(&row).expect("in-memory CSV");
     }
@@ -393,6 +404,13 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
         "{} rows, {} dates ({} used, {} skipped), {} assets; calendar {}{missing}; returns taken as {}; horizons 1–{}.",
         m.rows, m.dates, m.dates_used, m.dates_skipped, m.assets, m.frequency, m.return_timing, m.horizons
     )));
+    if let Some(c) = &m.comparison {
+        out.push_str(&paragraph(&format!(
+            "Signal `{}` is measured in full below; the comparison of {} follows it.",
+            m.signal,
+            c.signals.iter().map(|s| format!("`{}`", s.name)).collect::<Vec<_>>().join(", ")
+        )));
+    }
     if !m.neutralised_on.is_empty() {
         out.push_str(&paragraph(&format!(
             "Forecasts and returns neutralised on each date on: {} (least-squares residuals, before any IC).",
@@ -446,6 +464,9 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
             bs.mean_block_length,
             per_rule.join("; ")
         )));
+    }
+    if let Some(c) = &m.comparison {
+        out.push_str(&super::compare_out::comparison_terminal(c));
     }
     if let Some(c) = &m.calibrated_study {
         let like = match &c.what_if {

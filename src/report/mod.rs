@@ -2,6 +2,7 @@
 //! bytes; [`write_atomically`] puts them in place only once all are written.
 
 pub(crate) mod charts;
+mod compare_out;
 mod csv_tables;
 pub mod html;
 mod measure_out;
@@ -15,6 +16,9 @@ mod terminal;
 
 pub use charts::{
     ChartSet, measure_charts, plan_charts, regret_bin_names, regret_shares, stress_charts, study_charts, sweep_charts,
+};
+pub use compare_out::{
+    BlendWeight, SignalComparison, SignalSummary, comparison_terminal, paired_correlation, signals_csv,
 };
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
 pub use measure_out::{

@@ -142,6 +142,9 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
             panel_height: 360,
         });
     }
+    if let Some(c) = &m.comparison {
+        charts.push(signals_chart(c));
+    }
     if !boot_panels.is_empty() {
         charts.push(Chart {
             name: "bootstrap".into(),
@@ -154,4 +157,78 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
         });
     }
     charts
+}
+
+/// The colours of compared signals, in order (the blend is black).
+const SIGNAL_COLOURS: [crate::chart::Colour; 6] =
+    [PALETTE.blue, PALETTE.orange, PALETTE.green, PALETTE.purple, PALETTE.sky, PALETTE.vermillion];
+
+/// Every signal's lagged and horizon ICs on shared axes, and the correlation
+/// of their per-date ICs.
+fn signals_chart(c: &crate::report::SignalComparison) -> Chart {
+    let lines = |curve: fn(&crate::report::SignalSummary) -> &Curve| -> Vec<Layer> {
+        let mut layers = vec![Layer::HLine { y: 0.0, colour: PALETTE.grey, label: String::new() }];
+        for (i, s) in c.signals.iter().enumerate() {
+            let pts: Vec<(f64, f64)> =
+                curve(s).mean.iter().enumerate().filter_map(|(k, v)| Some(((k + 1) as f64, (*v)?))).collect();
+            let blend = s.kind == "blend";
+            layers.push(Layer::Line {
+                x: pts.iter().map(|p| p.0).collect(),
+                y: pts.iter().map(|p| p.1).collect(),
+                colour: if blend { PALETTE.black } else { SIGNAL_COLOURS[i % SIGNAL_COLOURS.len()] },
+                width: if blend { 3 } else { 2 },
+                dashed: blend,
+                markers: true,
+                label: match s.best_horizon.peak {
+                    Some(h) => format!("{} (peak {h})", s.name),
+                    None => s.name.clone(),
+                },
+            });
+        }
+        layers
+    };
+    let names: Vec<String> = c.signals.iter().map(|s| s.name.clone()).collect();
+    let heat = crate::chart::HeatPanel {
+        row_title: "signal".into(),
+        col_title: "signal".into(),
+        rows: names.clone(),
+        cols: names,
+        values: c.ic_correlation.iter().map(|r| r.iter().map(|v| v.map_or(0.0, f64::abs)).collect()).collect(),
+        text: c
+            .ic_correlation
+            .iter()
+            .map(|r| r.iter().map(|v| v.map_or("—".into(), |v| format!("{v:.2}"))).collect())
+            .collect(),
+        marked: (0..c.signals.len()).map(|i| (i, i)).collect(),
+    };
+    Chart {
+        name: "signals".into(),
+        title: if c.blend_weights.is_empty() {
+            "Your signals side by side".into()
+        } else {
+            format!("Your signals side by side, and the blend {}", c.blend_words())
+        },
+        caption: "Each signal's mean lagged and horizon IC (the legend gives each horizon-IC peak), and the \
+                  correlation of their per-date lag-1 ICs (shade: its size; text: its sign and value). A slow signal \
+                  mixed into a fast one moves the blend's peak towards longer horizons."
+            .into(),
+        panels: vec![
+            Panel::Xy(XyPanel {
+                heading: "lagged IC".into(),
+                x_label: "lag (periods)".into(),
+                y_label: "mean lagged IC".into(),
+                layers: lines(|s| &s.lagged_ic),
+                ..XyPanel::default()
+            }),
+            Panel::Xy(XyPanel {
+                heading: "horizon IC".into(),
+                x_label: "horizon (periods)".into(),
+                y_label: "mean horizon IC".into(),
+                layers: lines(|s| &s.horizon_ic),
+                ..XyPanel::default()
+            }),
+            Panel::Heat(heat),
+        ],
+        panel_height: 360,
+    }
 }

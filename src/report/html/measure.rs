@@ -1,7 +1,7 @@
 //! The report of `measure`; figures point into `measure.json`.
 
 use super::study::rule_name;
-use super::{ErrRow, Fmt, Page, fig, fig_opt, int};
+use super::{ErrRow, Fmt, Page, Table, fig, fig_opt, int};
 use crate::measure::rules::Rule;
 use crate::report::MeasureResult;
 
@@ -126,11 +126,12 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
                 .into(),
         ),
     ];
+    let tables = m.comparison.as_ref().map(comparison_table).into_iter().collect();
     Page {
         title: format!("lagfold measure: {}", m.file),
         summary,
         charts,
-        tables: Vec::new(),
+        tables,
         parameters,
         errors,
         errors_note: "Figures measured on your data carry sampling error (the EWC standard errors); the \
@@ -138,5 +139,79 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
                       errors."
             .into(),
         methods,
+    }
+}
+
+/// The signals side by side, every figure pointing into `measure.json`.
+fn comparison_table(c: &crate::report::SignalComparison) -> Table {
+    let choice = |i: usize, r: usize, h: Option<usize>, range: Option<[usize; 2]>| match (h, range) {
+        (Some(h), Some([lo, hi])) => format!(
+            "{} ({}–{})",
+            int(&format!("/comparison/signals/{i}/best_horizon/{}", ["peak", "formula", "fitted"][r]), h),
+            int(&format!("/comparison/signals/{i}/range_90/{r}/0"), lo),
+            int(&format!("/comparison/signals/{i}/range_90/{r}/1"), hi)
+        ),
+        (Some(h), None) => {
+            int(&format!("/comparison/signals/{i}/best_horizon/{}", ["peak", "formula", "fitted"][r]), h)
+        }
+        _ => "—".into(),
+    };
+    let rows = c
+        .signals
+        .iter()
+        .enumerate()
+        .map(|(i, s)| {
+            let b = s.best_horizon.as_array();
+            let peak = b[0].map_or("—".into(), |h| {
+                fig_opt(
+                    &format!("/comparison/signals/{i}/horizon_ic/mean/{}", h - 1),
+                    s.horizon_ic.mean[h - 1],
+                    Fmt::Num(4),
+                    "—",
+                )
+            });
+            vec![
+                s.name.clone(),
+                fig_opt(&format!("/comparison/signals/{i}/lagged_ic/mean/0"), s.lagged_ic.mean[0], Fmt::Num(4), "—"),
+                format!(
+                    "{} to {}",
+                    fig_opt(
+                        &format!("/comparison/signals/{i}/lagged_ic/ci_low/0"),
+                        s.lagged_ic.ci_low[0],
+                        Fmt::Num(4),
+                        "—"
+                    ),
+                    fig_opt(
+                        &format!("/comparison/signals/{i}/lagged_ic/ci_high/0"),
+                        s.lagged_ic.ci_high[0],
+                        Fmt::Num(4),
+                        "—"
+                    )
+                ),
+                peak,
+                choice(i, 0, b[0], s.range_90[0]),
+                choice(i, 1, b[1], s.range_90[1]),
+                choice(i, 2, b[2], s.range_90[2]),
+            ]
+        })
+        .collect();
+    Table {
+        heading: if c.blend_weights.is_empty() {
+            "Signals side by side".into()
+        } else {
+            format!("Signals side by side (blend = {} on per-date z-scores)", c.blend_words())
+        },
+        header: [
+            "signal",
+            "lag-1 IC",
+            "95% interval",
+            "horizon-IC peak",
+            "peak rule (90% range)",
+            "Σ IC/√n (90% range)",
+            "fitted (90% range)",
+        ]
+        .map(String::from)
+        .to_vec(),
+        rows,
     }
 }
