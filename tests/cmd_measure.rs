@@ -314,3 +314,41 @@ fn files_as_researchers_have_them_are_read() {
         "{err}"
     );
 }
+
+#[test]
+fn every_numeric_column_is_a_signal_and_blends_name_read_columns() {
+    // rows(12) with a second numeric signal and a text column.
+    let text: String = rows(12)
+        .lines()
+        .enumerate()
+        .map(|(i, l)| if i == 0 { format!("{l},other,label\n") } else { format!("{l},{},x{}\n", i % 7, i % 3) })
+        .collect();
+    let tmp = tempfile::tempdir().unwrap();
+    let csv = tmp.path().join("p.csv");
+    std::fs::write(&csv, &text).unwrap();
+    lagfold()
+        .arg("measure")
+        .arg(&csv)
+        .args(["--every-signal", "--horizons", "2", "--min-assets", "3", "--no-study", "--no-charts", "-q", "--out"])
+        .arg(tmp.path().join("o"))
+        .assert()
+        .success();
+    let v = measure_json(&tmp.path().join("o"));
+    let names: Vec<&str> =
+        v["comparison"]["signals"].as_array().unwrap().iter().map(|s| s["name"].as_str().unwrap()).collect();
+    assert_eq!(names, ["forecast", "other"]);
+    assert!(v["warnings"].to_string().contains("`label`"), "{}", v["warnings"]);
+    // Blend errors: a column not read, a bad term, a single column, all-zero weights.
+    let err = fails(&text, &["--forecast-column", "forecast", "--every-signal"]);
+    assert!(err.contains("cannot be used with"), "{err}");
+    let err = fails(&text, &["--blend", "forecast=0.5,nosuch=0.5"]);
+    assert!(err.contains("no column `nosuch`") && err.contains("the header has"), "{err}");
+    let err = fails(&text, &["--blend", "forecast:0.5,other=0.5"]);
+    assert!(err.contains("column=weight"), "{err}");
+    let err = fails(&text, &["--blend", "forecast=1"]);
+    assert!(err.contains("at least two"), "{err}");
+    let err = fails(&text, &["--blend", "forecast=0,other=0"]);
+    assert!(err.contains("every weight is zero"), "{err}");
+    let err = fails(&text, &["--every-signal", "--blend", "forecast=1,label=1"]);
+    assert!(err.contains("not among the signals read"), "{err}");
+}

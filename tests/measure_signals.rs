@@ -22,7 +22,7 @@
 //! whose few degrees of freedom make them noisy. A per-date sample
 //! correlation of N pairs has variance `(1 − ρ²)²/(N − 1)` (Fisher, 1915),
 //! below `1/(N − 1)`; the signals are independent over time and the returns
-//! nearly so (γ_h/γ_0 < 0.005), so the mean of m lag-k ICs has
+//! nearly so (γ_h/γ_0 ≤ 0.0052), so the mean of m lag-k ICs has
 //! `σ ≤ 1/√((N − 1)·m)`. Horizon-n ICs of consecutive dates share n − 1
 //! periods, a moving average whose long-run variance is n times the
 //! per-date one: `σ ≤ √(n/((N − 1)·m))`. Per-date correlations also carry an
