@@ -261,3 +261,50 @@ fn user_curve_names_are_shown_as_text_not_markup() {
     let lead: String = page.select(&sel("#summary p")).next().unwrap().text().collect();
     assert!(lead.contains("<b>slow & steady</b>"), "{lead}");
 }
+
+#[test]
+fn measure_compares_signals_and_trades_the_first_in_tranches() {
+    let tmp = tempfile::tempdir().unwrap();
+    let panel = tmp.path().join("panel.csv");
+    lagfold()
+        .args(["panel", "monthly-steady", "--assets", "150", "--history", "48", "--seed", "5", "-q", "--out"])
+        .arg(&panel)
+        .assert()
+        .success();
+    // A second signal: the first with noise of its own (a deterministic wobble).
+    let text = std::fs::read_to_string(&panel).unwrap();
+    let two: String = text
+        .lines()
+        .enumerate()
+        .map(|(i, l)| {
+            if i == 0 {
+                format!("{l},noisy\n")
+            } else {
+                let f: f64 = l.split(',').nth(2).unwrap().parse().unwrap();
+                format!("{l},{:.6}\n", f + ((i * 7919) % 101) as f64 / 50.0 - 1.0)
+            }
+        })
+        .collect();
+    std::fs::write(&panel, two).unwrap();
+    let out = tmp.path().join("m");
+    lagfold()
+        .arg("measure")
+        .arg(&panel)
+        .args(["--forecast-column", "forecast,noisy", "--blend", "forecast=0.7,noisy=0.3", "--cost-bps", "10,25"])
+        .args(["--horizons", "8", "--paths", "40", "--bootstrap", "100", "-q", "--out"])
+        .arg(&out)
+        .assert()
+        .success();
+    check_charts(
+        &out,
+        &[("signals", "Your signals side by side, and the blend"), ("holdings", "Tranche books on your panel")],
+    );
+    check_report(&out, "measure.json", 5);
+    let m: Value = serde_json::from_slice(&std::fs::read(out.join("measure.json")).unwrap()).unwrap();
+    assert_eq!(m["comparison"]["signals"][2]["name"], "blend");
+    assert_eq!(m["books"]["costs"].as_array().unwrap().len(), 2);
+    assert_eq!(m["calibrated_study"]["net"].as_array().unwrap().len(), 2);
+    let holdings = std::fs::read_to_string(out.join("holdings.csv")).unwrap();
+    assert!(holdings.starts_with("holding,turnover,gross_ir,gross_ir_se,net_ir_10bps,net_ir_se_10bps,net_ir_25bps"));
+    assert_eq!(holdings.lines().count(), 9);
+}

@@ -101,13 +101,15 @@ fn no_data_exits_2_naming_why_and_the_fix() {
 }
 
 #[test]
-fn same_column_twice_and_options_that_do_not_apply_are_refused() {
+fn same_column_twice_bad_costs_and_options_that_do_not_apply_are_refused() {
     let tmp = tempfile::tempdir().unwrap();
     let csv = simulated(tmp.path(), "monthly-steady", &["--assets", "30", "--history", "40"]);
     let (code, _, err, _) = measure(&csv, &["--return-column", "forecast"]);
     assert!(code == 2 && err.contains("`forecast` is named as both the forecast and the return column"), "{err}");
-    let (code, _, err, _) = measure(&csv, &["--cost-bps", "5"]);
-    assert!(code == 2 && err.contains("--cost-bps does not apply to `measure` yet"), "{err}");
+    let (code, _, err, _) = measure(&csv, &["--forecast-column", "forecast,forecast"]);
+    assert!(code == 2 && err.contains("`forecast` is named as both the forecast and the forecast column"), "{err}");
+    let (code, _, err, _) = measure(&csv, &["--cost-bps", "5,-1"]);
+    assert!(code == 2 && err.contains("must be in [0, 10000) basis points, got -1"), "{err}");
     for opt in [["--assets", "10"], ["--history", "10"]] {
         let (code, _, err, _) = measure(&csv, &[opt[0], opt[1], "--no-study"]);
         assert!(code == 2 && err.contains("which --no-study skips"), "{err}");

@@ -8,8 +8,8 @@ use crate::measure::rules::choose_measured;
 use crate::measure::{Measurement, Panel, bootstrap, extras, fit, sign};
 use crate::reader::{ReadOptions, read_panel};
 use crate::report::{
-    self, BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult, PerDateTable, SkippedDate,
-    SuccessRatio, TimingCheck, finite,
+    self, BestHorizon, BootCounts, Bootstrap, CalibratedNet, CalibratedStudy, Curve, MeasureResult, PerDateTable,
+    SkippedDate, SuccessRatio, TimingCheck, finite,
 };
 use crate::study::Setup;
 use std::path::{Path, PathBuf};
@@ -108,11 +108,8 @@ pub struct MeasureArgs {
 
 /// `lagfold measure`.
 pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
-    if !a.study.cost_bps.is_empty() {
-        return Err(Failure::input(
-            "--cost-bps does not apply to `measure` yet: the tranche books are not measured on a user's panel; \
-             `lagfold run calibrated.toml --cost-bps …` gives the simulated answer",
-        ));
+    for &c in &a.study.cost_bps {
+        crate::scenario::check_cost_bps("--cost-bps", c).map_err(Failure::input)?;
     }
     if (a.study.assets.is_some() || a.study.history.is_some()) && a.no_study {
         return Err(Failure::input(
@@ -188,6 +185,9 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     result.comparison =
         super::compare::compare(&mut read, &result, blend, &settings, &mut warnings).map_err(Failure::input)?;
     result.warnings.extend(warnings);
+    if !a.study.cost_bps.is_empty() {
+        result.books = Some(own_books(&read, &settings, &a.study.cost_bps, &mut result.warnings));
+    }
     let name: String = format!("{stem}-calibrated")
         .chars()
         .map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '-' })
@@ -227,7 +227,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
                 } else {
                     scenario
                 };
-                let (mut study, sims) = calibrated_study(scenario, &a.study)?;
+                let (mut study, sims) = calibrated_study(scenario, &a.study, &a.study.cost_bps)?;
                 if what_if.assets.is_some() || what_if.history.is_some() {
                     study.what_if =
                         Some(format!("{} assets × {} dates instead of the panel's", study.assets, study.history));
@@ -247,6 +247,9 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     if let Some(c) = &result.comparison {
         files.push(("signals.csv".into(), report::signals_csv(c)));
     }
+    if let Some(b) = &result.books {
+        files.push(("holdings.csv".into(), report::holdings_csv(b)));
+    }
     let charts = super::charts(a.study.no_charts, || report::measure_charts(&result))?;
     files.extend(charts.files);
     let settings = serde_json::json!({
@@ -259,6 +262,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
         "horizons": l,
         "min_assets": a.min_assets,
         "bootstrap_resamples": a.bootstrap,
+        "cost_bps": a.study.cost_bps,
         "bootstrap_mean_block_length": result.bootstrap.mean_block_length,
         "seed": seed,
     });
@@ -275,6 +279,30 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     Ok(())
 }
 
+/// The tranche books on the first signal's panel at every cost, with a
+/// warning when the returns look like percentages (costs assume decimal
+/// returns: 0.01 is one per cent).
+fn own_books(
+    read: &crate::reader::ReadPanel,
+    s: &Settings,
+    costs_bps: &[f64],
+    warnings: &mut Vec<String>,
+) -> crate::report::OwnBooks {
+    let mut abs: Vec<f64> = read.panel.returns.iter().filter(|r| r.is_finite()).map(|r| r.abs()).collect();
+    if !abs.is_empty() {
+        let mid = abs.len() / 2;
+        let median = *abs.select_nth_unstable_by(mid, f64::total_cmp).1;
+        if median > 0.2 {
+            warnings.push(format!(
+                "the median absolute return is {median:.3}: if returns are in per cent, divide them by 100, since \
+                 --cost-bps assumes decimal returns (0.01 = 1%)"
+            ));
+        }
+    }
+    let books = crate::portfolio::own::own_books(&read.panel, s.horizons, s.min_assets);
+    crate::report::OwnBooks::new(&books, costs_bps, calibrate::periods_per_year(read.median_gap_days))
+}
+
 /// The study on the calibrated scenario: how often a history like the user's
 /// picks the right horizon, and the spread of each mean across its histories.
 /// Only the horizon rules are reported, so the reference simulation behind
@@ -284,10 +312,29 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
 fn calibrated_study(
     mut scenario: crate::scenario::Scenario,
     a: &StudyArgs,
+    costs_bps: &[f64],
 ) -> Result<(CalibratedStudy, SimulatedSpread), Failure> {
-    scenario.portfolio.reference_paths = MIN_REFERENCE_PATHS;
+    match costs_bps.first() {
+        // The net-IR truth needs the full reference simulation.
+        Some(&c) => scenario.portfolio.cost_bps = c,
+        None => scenario.portfolio.reference_paths = MIN_REFERENCE_PATHS,
+    }
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("calibrated.toml: {e}")))?;
-    let (_, r) = truth_and_study(&setup, a, &[]);
+    let (_, r) = truth_and_study(&setup, a, costs_bps);
+    let net = r
+        .cost_sweep
+        .iter()
+        .map(|row| CalibratedNet {
+            cost_bps: row.cost_bps,
+            true_best_holding: row.true_best_holding,
+            hit_rate: row.measured.hit_rate,
+            hit_rate_se: row.measured.hit_rate_se,
+            near_hit_rate: row.measured.near_hit_rate,
+            near_hit_rate_se: row.measured.near_hit_rate_se,
+            regret_bps_year_mean: row.measured.regret_bps_year_mean,
+            regret_bps_year_mean_se: row.measured.regret_bps_year_mean_se,
+        })
+        .collect();
     let rules = [&r.rules.peak, &r.rules.formula, &r.rules.fitted];
     let sqrt_paths = (r.paths as f64).sqrt();
     let spread = |c: &crate::study::CurveStats| c.mean_se.iter().map(|s| s.map(|s| s * sqrt_paths)).collect();
@@ -302,6 +349,7 @@ fn calibrated_study(
             near_hit_rate: rules.map(|x| x.near_hit_rate),
             near_hit_rate_se: rules.map(|x| x.near_hit_rate_se),
             regret_rel_mean: rules.map(|x| x.regret_rel_mean),
+            net,
         },
         [spread(&r.lagged_ic), spread(&r.horizon_ic)],
     ))
@@ -506,6 +554,7 @@ pub fn measure(
         neutralised_on: Vec::new(),
         rolling_window: s.window,
         comparison: None,
+        books: None,
         per_date,
     };
     Ok((result, best))

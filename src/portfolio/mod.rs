@@ -2,6 +2,7 @@
 //! and the net information ratio (MODEL.md §5).
 
 pub mod books;
+pub mod own;
 pub mod sums;
 pub mod truth;
 

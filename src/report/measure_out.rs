@@ -164,6 +164,31 @@ pub struct CalibratedStudy {
     pub near_hit_rate_se: [f64; 3],
     /// Mean share of the best horizon IC given up.
     pub regret_rel_mean: [f64; 3],
+    /// With `--cost-bps`: the net-IR rule at each cost (empty without).
+    pub net: Vec<CalibratedNet>,
+}
+
+/// How often a history like the user's finds the best holding net of one
+/// cost, and what a miss costs.
+#[derive(Debug, Clone, Serialize)]
+pub struct CalibratedNet {
+    /// One-way cost, basis points.
+    pub cost_bps: f64,
+    /// True best holding of the calibrated scenario at this cost.
+    pub true_best_holding: usize,
+    /// Share of histories whose measured net IR picks exactly it.
+    pub hit_rate: f64,
+    /// Its Monte Carlo error.
+    pub hit_rate_se: f64,
+    /// Share within one period of it.
+    pub near_hit_rate: f64,
+    /// Its Monte Carlo error.
+    pub near_hit_rate_se: f64,
+    /// Mean regret in basis points a year (net IR given up × the best book's
+    /// annual volatility, unit gross exposure).
+    pub regret_bps_year_mean: Option<f64>,
+    /// Its Monte Carlo error.
+    pub regret_bps_year_mean_se: Option<f64>,
 }
 
 /// A date that gave no lag-1 IC, and why.
@@ -293,6 +318,8 @@ pub struct MeasureResult {
     pub rolling_window: usize,
     /// Every signal side by side, and the blend (`None` with one signal and no blend).
     pub comparison: Option<super::compare_out::SignalComparison>,
+    /// The tranche books on the panel (`None` without `--cost-bps`).
+    pub books: Option<super::own_books_out::OwnBooks>,
     /// Every date's figures (`per_date.csv`; not in `measure.json`).
     #[serde(skip)]
     pub per_date: PerDateTable,
@@ -468,6 +495,9 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
     if let Some(c) = &m.comparison {
         out.push_str(&super::compare_out::comparison_terminal(c));
     }
+    if let Some(b) = &m.books {
+        out.push_str(&super::own_books_out::own_books_terminal(b));
+    }
     if let Some(c) = &m.calibrated_study {
         let like = match &c.what_if {
             Some(w) => format!("A history like this one but with {w} (what-if"),
@@ -485,6 +515,23 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
             100.0 * c.regret_rel_mean[0],
             100.0 * c.near_hit_rate[1],
             100.0 * c.near_hit_rate[2]
+        )));
+    }
+    for n in m.calibrated_study.iter().flat_map(|c| &c.net) {
+        let miss = match (n.regret_bps_year_mean, n.regret_bps_year_mean_se) {
+            (Some(r), Some(se)) => format!("{r:.1} ± {se:.1} bps a year"),
+            (Some(r), None) => format!("{r:.1} bps a year"),
+            _ => "an unknown amount".into(),
+        };
+        out.push_str(&paragraph(&format!(
+            "Net of {} bps in those histories, the true best holding is {}; picking the holding with the best \
+             measured net IR finds it in {:.0}% ± {:.0} of them (within one period in {:.0}%), and gives up {miss} \
+             on average (unit gross book).",
+            n.cost_bps,
+            n.true_best_holding,
+            100.0 * n.hit_rate,
+            100.0 * n.hit_rate_se,
+            100.0 * n.near_hit_rate,
         )));
     }
     if !m.se_disagreements.is_empty() {

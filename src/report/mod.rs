@@ -6,6 +6,7 @@ mod compare_out;
 mod csv_tables;
 pub mod html;
 mod measure_out;
+mod own_books_out;
 mod panel_csv;
 mod plan;
 pub(crate) mod records;
@@ -22,9 +23,11 @@ pub use compare_out::{
 };
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
 pub use measure_out::{
-    BestHorizon, BootCounts, Bootstrap, CalibratedStudy, Curve, MeasureResult, PerDateTable, SkippedDate, SuccessRatio,
-    TimingCheck, finite, measure_csv, measure_json, measure_terminal, per_date_csv,
+    BestHorizon, BootCounts, Bootstrap, CalibratedNet, CalibratedStudy, Curve, MeasureResult, PerDateTable,
+    SkippedDate, SuccessRatio, TimingCheck, finite, measure_csv, measure_json, measure_terminal, per_date_csv,
+    ranges as measure_out_ranges,
 };
+pub use own_books_out::{OWN_BOOKS_METHOD, OwnBooks, OwnNet, holdings_csv, own_books_terminal};
 pub use panel_csv::write_panel;
 pub use plan::{plan_csv, plan_json, plan_terminal};
 pub use stress::{stress_csv, stress_json, stress_terminal};

@@ -50,3 +50,12 @@ pub fn uniforms(seed: u64) -> impl FnMut() -> f64 {
         (x >> 11) as f64 / (1u64 << 53) as f64
     }
 }
+
+/// Standard normals from [`uniforms`] by the Box–Muller transform (Box and Muller, 1958).
+pub fn normals(seed: u64) -> impl FnMut() -> f64 {
+    let mut u = uniforms(seed);
+    move || {
+        let (u1, u2) = (u().max(1e-300), u());
+        (-2.0 * u1.ln()).sqrt() * (2.0 * std::f64::consts::PI * u2).cos()
+    }
+}

@@ -145,6 +145,9 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
     if let Some(c) = &m.comparison {
         charts.push(signals_chart(c));
     }
+    if let Some(b) = &m.books {
+        charts.push(holdings_chart(b));
+    }
     if !boot_panels.is_empty() {
         charts.push(Chart {
             name: "bootstrap".into(),
@@ -208,9 +211,9 @@ fn signals_chart(c: &crate::report::SignalComparison) -> Chart {
         } else {
             format!("Your signals side by side, and the blend {}", c.blend_words())
         },
-        caption: "Each signal's mean lagged and horizon IC (the legend gives each horizon-IC peak), and the \
-                  correlation of their per-date lag-1 ICs (shade: its size; text: its sign and value). A slow signal \
-                  mixed into a fast one moves the blend's peak towards longer horizons."
+        caption: "Each signal's mean lagged and horizon IC (the legend gives each horizon-IC peak) and the \
+                  correlation of their per-date lag-1 ICs (shade: its size; text: its sign and value), where a slow \
+                  signal mixed into a fast one moves the blend's peak towards longer horizons"
             .into(),
         panels: vec![
             Panel::Xy(XyPanel {
@@ -230,5 +233,76 @@ fn signals_chart(c: &crate::report::SignalComparison) -> Chart {
             Panel::Heat(heat),
         ],
         panel_height: 360,
+    }
+}
+
+/// The tranche books on the user's panel: gross and net IR by holding length
+/// with one-standard-error bands, and the turnover.
+fn holdings_chart(b: &crate::report::OwnBooks) -> Chart {
+    let band = |ir: &[Option<f64>], se: &[Option<f64>], colour, label: String| -> Vec<Layer> {
+        let pts: Vec<(f64, f64, f64)> =
+            ir.iter().zip(se).enumerate().filter_map(|(h, (v, s))| Some(((h + 1) as f64, (*v)?, (*s)?))).collect();
+        let x: Vec<f64> = pts.iter().map(|p| p.0).collect();
+        vec![
+            Layer::Band {
+                x: x.clone(),
+                lo: pts.iter().map(|p| p.1 - p.2).collect(),
+                hi: pts.iter().map(|p| p.1 + p.2).collect(),
+                colour,
+                opacity: 0.15,
+                label: String::new(),
+            },
+            Layer::Line {
+                x,
+                y: pts.iter().map(|p| p.1).collect(),
+                colour,
+                width: 2,
+                dashed: false,
+                markers: true,
+                label,
+            },
+        ]
+    };
+    let mut layers = vec![Layer::HLine { y: 0.0, colour: PALETTE.grey, label: String::new() }];
+    layers.extend(band(&b.gross_ir, &b.gross_ir_se, PALETTE.black, "gross".into()));
+    for (i, c) in b.costs.iter().enumerate() {
+        let colour = SIGNAL_COLOURS[i % SIGNAL_COLOURS.len()];
+        let best = c.best_holding.map_or(String::new(), |h| format!(", best {h}"));
+        layers.extend(band(&c.net_ir, &c.net_ir_se, colour, format!("net of {} bps{best}", c.cost_bps)));
+    }
+    let turnover: Vec<(f64, f64)> =
+        b.turnover.iter().enumerate().filter_map(|(h, t)| Some(((h + 1) as f64, (*t)?))).collect();
+    Chart {
+        name: "holdings".into(),
+        title: format!("Tranche books on your panel ({} periods)", b.periods),
+        caption: "Annualised information ratio of the staggered-tranche book by holding length, gross and net of \
+                  each cost, with one-standard-error bands (Lo, 2002); below, the traded notional per period."
+            .into(),
+        panels: vec![
+            Panel::Xy(XyPanel {
+                heading: "information ratio".into(),
+                x_label: "holding length (periods)".into(),
+                y_label: "annualised IR".into(),
+                layers,
+                ..XyPanel::default()
+            }),
+            Panel::Xy(XyPanel {
+                heading: "turnover".into(),
+                x_label: "holding length (periods)".into(),
+                y_label: "traded per period (× gross)".into(),
+                y_from_zero: true,
+                layers: vec![Layer::Line {
+                    x: turnover.iter().map(|p| p.0).collect(),
+                    y: turnover.iter().map(|p| p.1).collect(),
+                    colour: PALETTE.blue,
+                    width: 2,
+                    dashed: false,
+                    markers: true,
+                    label: String::new(),
+                }],
+                ..XyPanel::default()
+            }),
+        ],
+        panel_height: 340,
     }
 }

@@ -95,7 +95,14 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
             ));
         }
     }
-    let methods = vec![
+    for (i, n) in m.calibrated_study.iter().flat_map(|c| c.net.iter()).enumerate() {
+        errors.push(ErrRow::new(
+            format!("calibrated study, net-IR rule at {} bps: exact hit", n.cost_bps),
+            fig(&format!("/calibrated_study/net/{i}/hit_rate"), n.hit_rate, Fmt::Pct(1)),
+            fig(&format!("/calibrated_study/net/{i}/hit_rate_se"), n.hit_rate_se, Fmt::Pct(2)),
+        ));
+    }
+    let mut methods = vec![
         (
             "Estimators".into(),
             "Per-date Pearson and Spearman correlations of the forecast with the return k periods later (lagged IC) \
@@ -126,7 +133,16 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
                 .into(),
         ),
     ];
-    let tables = m.comparison.as_ref().map(comparison_table).into_iter().collect();
+    if m.books.is_some() {
+        methods.push(("Tranche books".into(), crate::report::OWN_BOOKS_METHOD.into()));
+    }
+    let tables = m
+        .comparison
+        .as_ref()
+        .map(comparison_table)
+        .into_iter()
+        .chain(m.books.as_ref().map(|b| books_table(b, m)))
+        .collect();
     Page {
         title: format!("lagfold measure: {}", m.file),
         summary,
@@ -209,6 +225,65 @@ fn comparison_table(c: &crate::report::SignalComparison) -> Table {
             "peak rule (90% range)",
             "Σ IC/√n (90% range)",
             "fitted (90% range)",
+        ]
+        .map(String::from)
+        .to_vec(),
+        rows,
+    }
+}
+
+/// The tranche books at each cost, with the calibrated study's net-IR rule beside.
+fn books_table(b: &crate::report::OwnBooks, m: &MeasureResult) -> Table {
+    let net = m.calibrated_study.as_ref().map_or(&[][..], |c| &c.net[..]);
+    let rows = b
+        .costs
+        .iter()
+        .enumerate()
+        .map(|(i, c)| {
+            let best = c.best_holding.map_or("—".into(), |h| {
+                format!(
+                    "{} (net IR {} ± {})",
+                    int(&format!("/books/costs/{i}/best_holding"), h),
+                    fig_opt(&format!("/books/costs/{i}/net_ir/{}", h - 1), c.net_ir[h - 1], Fmt::Num(2), "—"),
+                    fig_opt(&format!("/books/costs/{i}/net_ir_se/{}", h - 1), c.net_ir_se[h - 1], Fmt::Num(2), "—"),
+                )
+            });
+            let (truth, hit, regret) = match net.get(i) {
+                Some(n) => (
+                    int(&format!("/calibrated_study/net/{i}/true_best_holding"), n.true_best_holding),
+                    fig(&format!("/calibrated_study/net/{i}/hit_rate"), n.hit_rate, Fmt::Pct(1)),
+                    fig_opt(
+                        &format!("/calibrated_study/net/{i}/regret_bps_year_mean"),
+                        n.regret_bps_year_mean,
+                        Fmt::Num(1),
+                        "—",
+                    ),
+                ),
+                None => ("—".into(), "—".into(), "—".into()),
+            };
+            vec![
+                fig(&format!("/books/costs/{i}/cost_bps"), c.cost_bps, Fmt::Num(1)),
+                best,
+                crate::report::measure_out_ranges(&c.within_one_se),
+                truth,
+                hit,
+                regret,
+            ]
+        })
+        .collect();
+    Table {
+        heading: format!(
+            "Your signal traded in staggered tranches ({} periods), and how often a history like yours finds the best \
+             holding (calibrated study)",
+            b.periods
+        ),
+        header: [
+            "cost (bps, one way)",
+            "best measured holding",
+            "holdings within one s.e.",
+            "true best holding (calibrated)",
+            "net-IR rule finds it",
+            "a miss costs (bps a year)",
         ]
         .map(String::from)
         .to_vec(),
