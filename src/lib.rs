@@ -19,6 +19,7 @@ pub mod portfolio;
 pub mod reader;
 pub mod report;
 pub mod rng;
+pub mod rows;
 pub mod scenario;
 pub mod stats;
 pub mod stress;

@@ -83,6 +83,23 @@ impl Default for ReadOptions {
     }
 }
 
+/// Where a row is: a line of a CSV file (the header is line 1), or a row of
+/// an Apache Parquet file (the first is row 1).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Loc {
+    /// The 1-based line or row (saturating at `u32::MAX`, far beyond any
+    /// file within the memory budget).
+    pub n: u32,
+    /// A Parquet row rather than a CSV line.
+    pub parquet: bool,
+}
+
+impl std::fmt::Display for Loc {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{} {}", if self.parquet { "row" } else { "line" }, self.n)
+    }
+}
+
 /// What went wrong reading a panel, with the file and line.
 #[derive(Debug, thiserror::Error)]
 pub enum ReadError {
@@ -95,43 +112,43 @@ pub enum ReadError {
         message: String,
     },
     /// Required columns are absent from the header (all of them named at once).
-    #[error("{path}, line 1: {missing} (the header has: {header})")]
+    #[error("{path}, {}: {missing} (the header has: {header})", if *parquet { "schema" } else { "line 1" })]
     MissingColumns {
         /// The file.
         path: PathBuf,
         /// Each missing column with the option that renames it, in words.
         missing: String,
+        /// The file is Apache Parquet (its schema, not a header line).
+        parquet: bool,
         /// The header as found.
         header: String,
     },
     /// Date-times at more than one time of day.
     #[error(
-        "{path}, line {line}: the date-time {value:?} is at {time}, but line {first_line} is at {first}; one row a \
+        "{path}, {line}: the date-time {value:?} is at {time}, but {first_line} is at {first}; one row a \
          period needs one time of day (give dates without times, or all at one time)"
     )]
     MixedTimes {
         /// The file.
         path: PathBuf,
-        /// 1-based line.
-        line: u64,
+        /// Where: a 1-based line, or a Parquet row.
+        line: Loc,
         /// The text found.
         value: String,
         /// Its time of day.
         time: String,
         /// The first time of day seen.
         first: String,
-        /// Its line.
-        first_line: u64,
+        /// Where it was.
+        first_line: Loc,
     },
     /// A value that is not a number, or not a finite one.
-    #[error(
-        "{path}, line {line}: `{column}` must be a finite number or a missing-value token ({tokens}), got {value:?}"
-    )]
+    #[error("{path}, {line}: `{column}` must be a finite number or a missing-value token ({tokens}), got {value:?}")]
     BadNumber {
         /// The file.
         path: PathBuf,
-        /// 1-based line.
-        line: u64,
+        /// Where: a 1-based line, or a Parquet row.
+        line: Loc,
         /// The column.
         column: String,
         /// The text found.
@@ -141,28 +158,28 @@ pub enum ReadError {
     },
     /// A date in none of the accepted forms.
     #[error(
-        "{path}, line {line}: `{column}` must be a date as YYYY-MM-DD, YYYY/MM/DD, YYYYMMDD or an ISO 8601 \
+        "{path}, {line}: `{column}` must be a date as YYYY-MM-DD, YYYY/MM/DD, YYYYMMDD or an ISO 8601 \
          date-time (2001-01-31T16:00:00 or 2001-01-31 16:00:00), got {value:?}"
     )]
     BadDate {
         /// The file.
         path: PathBuf,
-        /// 1-based line.
-        line: u64,
+        /// Where: a 1-based line, or a Parquet row.
+        line: Loc,
         /// The column.
         column: String,
         /// The text found.
         value: String,
     },
     /// The same asset twice on one date.
-    #[error("{path}, line {line}: asset {asset:?} appears twice on {date} (first on line {first})")]
+    #[error("{path}, {line}: asset {asset:?} appears twice on {date} (first on {first})")]
     Duplicate {
         /// The file.
         path: PathBuf,
-        /// 1-based line of the second row.
-        line: u64,
-        /// 1-based line of the first.
-        first: u64,
+        /// Where the second row is.
+        line: Loc,
+        /// Where the first is.
+        first: Loc,
         /// The date.
         date: String,
         /// The asset.
@@ -182,7 +199,7 @@ pub enum ReadError {
     },
     /// No numeric column is left to measure as a forecast.
     #[error(
-        "{path}, line 1: no numeric column is left to measure as a forecast besides the date, asset, return and \
+        "{path}: no numeric column is left to measure as a forecast besides the date, asset, return and \
          neutralisation columns{skipped} (the header has: {header}); name one with --forecast-column"
     )]
     NoSignal {
@@ -384,8 +401,9 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         }
     }
     let io = |e: &dyn std::fmt::Display| ReadError::Io { path: path.to_path_buf(), message: e.to_string() };
-    let mut rdr = csv::ReaderBuilder::new().trim(csv::Trim::All).from_path(path).map_err(|e| io(&e))?;
-    let header = rdr.headers().map_err(|e| io(&e))?.clone();
+    let mut src = crate::rows::Rows::open(path).map_err(|e| io(&e))?;
+    let header = src.header().to_vec();
+    let parquet = src.is_parquet();
     let mut wanted = vec![(&opts.date, "date-column"), (&opts.asset, "asset-column"), (&opts.ret, "return-column")];
     wanted.extend(opts.group.iter().map(|g| (g, "group-column")));
     wanted.extend(opts.exposures.iter().map(|x| (x, "neutralize")));
@@ -402,7 +420,8 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         return Err(ReadError::MissingColumns {
             path: path.to_path_buf(),
             missing: missing.join("; "),
-            header: header.iter().collect::<Vec<_>>().join(", "),
+            parquet,
+            header: header.join(", "),
         });
     }
     let [cd, ca, cr] = [0, 1, 2].map(|i| found[i].unwrap_or_default());
@@ -434,7 +453,7 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         format!("empty, {}", opts.na.iter().map(|t| format!("`{t}`")).collect::<Vec<_>>().join(", "))
     };
     let is_na = |t: &str| t.is_empty() || opts.na.iter().any(|n| n.eq_ignore_ascii_case(t));
-    let mut first_time: Option<(String, u64)> = None;
+    let mut first_time: Option<(String, Loc)> = None;
     let mut date_ids: HashMap<i64, u32> = HashMap::new();
     let mut asset_ids: HashMap<String, u32> = HashMap::new();
     // (date id, asset id, line, row, return): 24 bytes a row.
@@ -443,9 +462,9 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     let mut last_day = i64::MIN;
     let mut rows = 0u64;
     let mut record = csv::StringRecord::new();
-    while rdr.read_record(&mut record).map_err(|e| io(&e))? {
+    while let Some(n) = src.next(&mut record).map_err(|e| io(&e))? {
         rows += 1;
-        let line = record.position().map_or(rows + 1, |p| p.line());
+        let line = Loc { n: u32::try_from(n).unwrap_or(u32::MAX), parquet };
         let field = |i: usize| record.get(i).unwrap_or("");
         let number = |i: usize, name: &str| -> Result<f64, ReadError> {
             let t = field(i);
@@ -510,7 +529,7 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         let d = *date_ids.entry(day).or_insert(n_dates);
         let n_assets = asset_ids.len() as u32;
         let a = *asset_ids.entry(field(ca).to_string()).or_insert(n_assets);
-        cells.push((d, a, u32::try_from(line).unwrap_or(u32::MAX), (rows - 1) as u32, r));
+        cells.push((d, a, line.n, (rows - 1) as u32, r));
         if let Some(c) = cg {
             let label = field(c);
             let n_groups = group_ids.len() as u32;
@@ -536,8 +555,8 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
         let asset = asset_ids.iter().find(|(_, id)| **id == w[1].1).map(|(k, _)| k.clone()).unwrap_or_default();
         return Err(ReadError::Duplicate {
             path: path.to_path_buf(),
-            line: u64::from(w[1].2),
-            first: u64::from(w[0].2),
+            line: Loc { n: w[1].2, parquet },
+            first: Loc { n: w[0].2, parquet },
             date: format!("{y:04}-{m:02}-{d:02}"),
             asset,
         });
@@ -563,7 +582,7 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
                 } else {
                     format!(" ({} hold text or no values)", passed.join(", "))
                 },
-                header: header.iter().collect::<Vec<_>>().join(", "),
+                header: header.join(", "),
             });
         }
         if !passed.is_empty() {

@@ -45,9 +45,9 @@ fn parse_bytes(s: &str) -> Result<u64, String> {
 /// Options of `measure`.
 #[derive(Debug, clap::Args)]
 pub struct MeasureArgs {
-    /// The panel: a CSV with one row per date and asset.
+    /// The panel: a CSV or Apache Parquet file with one row per date and asset.
     pub panel: PathBuf,
-    /// Name of the date column (ISO 8601 dates).
+    /// Name of the date column (YYYY-MM-DD, YYYY/MM/DD, YYYYMMDD, ISO 8601 date-times; Parquet dates and timestamps).
     #[arg(long, default_value = "date")]
     pub date_column: String,
     /// Name of the asset column.

@@ -1,0 +1,143 @@
+//! The rows of a panel file as text fields, whatever the format: CSV, or
+//! Apache Parquet (recognised by its `PAR1` magic bytes, whatever the file's
+//! name). Parquet values become the text a CSV export would hold, so both go
+//! through the same checks: a null or a floating-point NaN is an empty
+//! (missing) field, a date is `YYYY-MM-DD`, a timestamp at midnight is its
+//! date and any other timestamp `YYYY-MM-DDTHH:MM:SS` (UTC, fractions of a
+//! second kept), numbers in their shortest exact form.
+
+use parquet::file::reader::{FileReader, SerializedFileReader};
+use parquet::record::Field;
+use parquet::record::reader::RowIter;
+use std::io::Read;
+use std::path::Path;
+
+/// A source of rows.
+pub enum Rows {
+    /// A CSV file with a header line.
+    Csv(Box<csv::Reader<std::fs::File>>, Vec<String>),
+    /// An Apache Parquet file; the counter is the rows read.
+    Parquet(Box<RowIter<'static>>, Vec<String>, u64),
+}
+
+/// Whether the file starts with Parquet's magic bytes.
+fn is_parquet_file(path: &Path) -> std::io::Result<bool> {
+    let mut head = [0u8; 4];
+    let mut f = std::fs::File::open(path)?;
+    let mut got = 0;
+    while got < 4 {
+        match f.read(&mut head[got..])? {
+            0 => break,
+            k => got += k,
+        }
+    }
+    Ok(got == 4 && &head == b"PAR1")
+}
+
+/// Days since 1970-01-01 as an ISO date.
+fn iso(days: i64) -> String {
+    let (y, m, d) = crate::calendar::civil_from_days(days);
+    format!("{y:04}-{m:02}-{d:02}")
+}
+
+/// A timestamp in microseconds since the epoch (UTC) as a date, or a date-time off midnight.
+fn timestamp(micros: i64) -> String {
+    let day = micros.div_euclid(86_400_000_000);
+    let rest = micros.rem_euclid(86_400_000_000);
+    if rest == 0 {
+        return iso(day);
+    }
+    let (secs, frac) = (rest / 1_000_000, rest % 1_000_000);
+    let hms = format!("{:02}:{:02}:{:02}", secs / 3600, secs / 60 % 60, secs % 60);
+    if frac == 0 { format!("{}T{hms}", iso(day)) } else { format!("{}T{hms}.{frac:06}", iso(day)) }
+}
+
+/// A Parquet value as the text a CSV export would hold.
+fn field_text(f: &Field) -> String {
+    match f {
+        Field::Null => String::new(),
+        Field::Str(s) => s.clone(),
+        Field::Double(v) if v.is_nan() => String::new(),
+        Field::Float(v) if v.is_nan() => String::new(),
+        Field::Double(v) => v.to_string(),
+        Field::Float(v) => v.to_string(),
+        Field::Date(d) => iso(i64::from(*d)),
+        Field::TimestampMillis(ms) => timestamp(ms.saturating_mul(1000)),
+        Field::TimestampMicros(us) => timestamp(*us),
+        other => other.to_string(),
+    }
+}
+
+impl Rows {
+    /// Opens `path` as Parquet or CSV.
+    ///
+    /// # Errors
+    /// What the OS or the format's reader said.
+    pub fn open(path: &Path) -> Result<Self, String> {
+        if is_parquet_file(path).map_err(|e| e.to_string())? {
+            let file = std::fs::File::open(path).map_err(|e| e.to_string())?;
+            let reader = SerializedFileReader::new(file).map_err(|e| format!("not a readable Parquet file: {e}"))?;
+            let header =
+                reader.metadata().file_metadata().schema().get_fields().iter().map(|f| f.name().to_string()).collect();
+            let boxed: Box<dyn FileReader> = Box::new(reader);
+            let iter = RowIter::from_file_into(boxed);
+            return Ok(Rows::Parquet(Box::new(iter), header, 0));
+        }
+        let mut rdr = csv::ReaderBuilder::new().trim(csv::Trim::All).from_path(path).map_err(|e| e.to_string())?;
+        let header = rdr.headers().map_err(|e| e.to_string())?.iter().map(String::from).collect();
+        Ok(Rows::Csv(Box::new(rdr), header))
+    }
+
+    /// The column names.
+    pub fn header(&self) -> &[String] {
+        match self {
+            Rows::Csv(_, h) | Rows::Parquet(_, h, _) => h,
+        }
+    }
+
+    /// Whether the source is Parquet.
+    pub fn is_parquet(&self) -> bool {
+        matches!(self, Rows::Parquet(..))
+    }
+
+    /// Reads the next row into `record`; its 1-based line (CSV) or row
+    /// (Parquet), or `None` at the end.
+    ///
+    /// # Errors
+    /// What the format's reader said.
+    pub fn next(&mut self, record: &mut csv::StringRecord) -> Result<Option<u64>, String> {
+        match self {
+            Rows::Csv(rdr, _) => {
+                let more = rdr.read_record(record).map_err(|e| e.to_string())?;
+                Ok(more.then(|| record.position().map_or(0, |p| p.line())))
+            }
+            Rows::Parquet(iter, _, n) => match iter.next() {
+                None => Ok(None),
+                Some(row) => {
+                    let row = row.map_err(|e| e.to_string())?;
+                    record.clear();
+                    for (_, f) in row.get_column_iter() {
+                        record.push_field(field_text(f).trim());
+                    }
+                    *n += 1;
+                    Ok(Some(*n))
+                }
+            },
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn timestamps_at_midnight_are_dates_and_others_keep_their_time() {
+        assert_eq!(timestamp(980_899_200_000_000), "2001-01-31");
+        assert_eq!(timestamp(980_899_200_000_000 + 57_600_000_000), "2001-01-31T16:00:00");
+        assert_eq!(timestamp(980_899_200_000_000 + 1_500), "2001-01-31T00:00:00.001500");
+        assert_eq!(field_text(&Field::Double(f64::NAN)), "");
+        assert_eq!(field_text(&Field::Double(0.1)), "0.1");
+        assert_eq!(field_text(&Field::Date(11_353)), "2001-01-31");
+    }
+}
