@@ -149,6 +149,15 @@ pub fn calibrated(m: &Measured, name: &str, paths: usize, seed: u64) -> Result<(
         }
         None => {}
     }
+    // The default five quantiles need 25 assets (each leg at least five); a narrower panel gets fewer.
+    let breadth = (assets as usize).max(10);
+    if breadth < 25 {
+        let _ = writeln!(
+            text,
+            "\n[portfolio]\nquantiles = {}  # as many as leave each leg at least 5 of the {breadth} assets",
+            (breadth / 5).clamp(2, 5)
+        );
+    }
     let s = scenario::load(&text, "calibrated.toml", name, &Overrides::default()).map_err(|e| e.to_string())?;
     // The model and its truth must exist too (a negative fitted IC has no optimum).
     crate::study::Setup::new(s.clone()).map_err(|e| e.to_string())?;

@@ -352,3 +352,17 @@ fn every_numeric_column_is_a_signal_and_blends_name_read_columns() {
     let err = fails(&text, &["--every-signal", "--blend", "forecast=1,label=1"]);
     assert!(err.contains("not among the signals read"), "{err}");
 }
+
+#[test]
+fn a_narrow_panel_gets_a_calibrated_scenario_with_fewer_quantiles() {
+    // 16 assets: five quantiles would leave three assets a leg.
+    let tmp = tempfile::tempdir().unwrap();
+    lagfold()
+        .args(["measure", "tests/fixtures/neutralise_panel.csv", "--min-assets", "5", "--paths", "20", "-q"])
+        .args(["--no-charts", "--out"])
+        .arg(tmp.path().join("o"))
+        .assert()
+        .success();
+    let toml = std::fs::read_to_string(tmp.path().join("o/calibrated.toml")).unwrap();
+    assert!(toml.contains("quantiles = 3"), "{toml}");
+}

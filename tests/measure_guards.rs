@@ -114,6 +114,10 @@ fn same_column_twice_bad_costs_and_options_that_do_not_apply_are_refused() {
         let (code, _, err, _) = measure(&csv, &[opt[0], opt[1], "--no-study"]);
         assert!(code == 2 && err.contains("which --no-study skips"), "{err}");
     }
+    for opt in [["--paths", "50"], ["--threads", "2"]] {
+        let (code, _, err, _) = measure(&csv, &[opt[0], opt[1], "--no-study"]);
+        assert!(code == 2 && err.contains("--paths and --threads set the calibrated study"), "{err}");
+    }
 }
 
 #[test]

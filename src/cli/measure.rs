@@ -111,6 +111,11 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     for &c in &a.study.cost_bps {
         crate::scenario::check_cost_bps("--cost-bps", c).map_err(Failure::input)?;
     }
+    if (a.study.paths.is_some() || a.study.threads.is_some()) && a.no_study {
+        return Err(Failure::input(
+            "--paths and --threads set the calibrated study, which --no-study skips; drop one or the other",
+        ));
+    }
     if (a.study.assets.is_some() || a.study.history.is_some()) && a.no_study {
         return Err(Failure::input(
             "--assets and --history change the calibrated study (what if the panel were broader or longer?), \
