@@ -400,8 +400,11 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
             });
         }
     }
+    let mut src = crate::rows::Rows::open(path)
+        .map_err(|e| ReadError::Io { path: path.to_path_buf(), message: e.to_string() })?;
+    // Messages name standard input in words.
+    let path = if path == Path::new("-") { Path::new("standard input") } else { path };
     let io = |e: &dyn std::fmt::Display| ReadError::Io { path: path.to_path_buf(), message: e.to_string() };
-    let mut src = crate::rows::Rows::open(path).map_err(|e| io(&e))?;
     let header = src.header().to_vec();
     let parquet = src.is_parquet();
     let mut wanted = vec![(&opts.date, "date-column"), (&opts.asset, "asset-column"), (&opts.ret, "return-column")];

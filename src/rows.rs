@@ -1,6 +1,6 @@
 //! The rows of a panel file as text fields, whatever the format: CSV, or
 //! Apache Parquet (recognised by its `PAR1` magic bytes, whatever the file's
-//! name). Parquet values become the text a CSV export would hold, so both go
+//! name); `-` is standard input. Parquet values become the text a CSV export would hold, so both go
 //! through the same checks: a null or a floating-point NaN is an empty
 //! (missing) field, a date is `YYYY-MM-DD`, a timestamp at midnight is its
 //! date and any other timestamp `YYYY-MM-DDTHH:MM:SS` (UTC, fractions of a
@@ -14,8 +14,8 @@ use std::path::Path;
 
 /// A source of rows.
 pub enum Rows {
-    /// A CSV file with a header line.
-    Csv(Box<csv::Reader<std::fs::File>>, Vec<String>),
+    /// A CSV file (or standard input) with a header line.
+    Csv(Box<csv::Reader<Box<dyn Read>>>, Vec<String>),
     /// An Apache Parquet file; the counter is the rows read.
     Parquet(Box<RowIter<'static>>, Vec<String>, u64),
 }
@@ -74,6 +74,9 @@ impl Rows {
     /// # Errors
     /// What the OS or the format's reader said.
     pub fn open(path: &Path) -> Result<Self, String> {
+        if path == Path::new("-") {
+            return Self::stdin();
+        }
         if is_parquet_file(path).map_err(|e| e.to_string())? {
             let file = std::fs::File::open(path).map_err(|e| e.to_string())?;
             let reader = SerializedFileReader::new(file).map_err(|e| format!("not a readable Parquet file: {e}"))?;
@@ -83,9 +86,36 @@ impl Rows {
             let iter = RowIter::from_file_into(boxed);
             return Ok(Rows::Parquet(Box::new(iter), header, 0));
         }
-        let mut rdr = csv::ReaderBuilder::new().trim(csv::Trim::All).from_path(path).map_err(|e| e.to_string())?;
+        let file = std::fs::File::open(path).map_err(|e| e.to_string())?;
+        Self::csv(Box::new(file))
+    }
+
+    fn csv(input: Box<dyn Read>) -> Result<Self, String> {
+        let mut rdr = csv::ReaderBuilder::new().trim(csv::Trim::All).from_reader(input);
         let header = rdr.headers().map_err(|e| e.to_string())?.iter().map(String::from).collect();
         Ok(Rows::Csv(Box::new(rdr), header))
+    }
+
+    /// Standard input: CSV streamed, or Parquet (which needs random access)
+    /// read whole into memory first.
+    fn stdin() -> Result<Self, String> {
+        use std::io::BufRead;
+        let mut input = std::io::BufReader::with_capacity(1 << 16, std::io::stdin());
+        let head = input.fill_buf().map_err(|e| e.to_string())?;
+        if !head.starts_with(b"PAR1") {
+            return Self::csv(Box::new(input));
+        }
+        let mut bytes = Vec::new();
+        input.read_to_end(&mut bytes).map_err(|e| e.to_string())?;
+        let reader = SerializedFileReader::new(bytes::Bytes::from(bytes))
+            .map_err(|e| format!("not a readable Parquet file: {e}"))?;
+        Ok(Self::parquet(Box::new(reader)))
+    }
+
+    fn parquet(reader: Box<dyn FileReader>) -> Self {
+        let header =
+            reader.metadata().file_metadata().schema().get_fields().iter().map(|f| f.name().to_string()).collect();
+        Rows::Parquet(Box::new(RowIter::from_file_into(reader)), header, 0)
     }
 
     /// The column names.

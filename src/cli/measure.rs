@@ -45,7 +45,8 @@ fn parse_bytes(s: &str) -> Result<u64, String> {
 /// Options of `measure`.
 #[derive(Debug, clap::Args)]
 pub struct MeasureArgs {
-    /// The panel: a CSV or Apache Parquet file with one row per date and asset.
+    /// The panel: a CSV or Apache Parquet file with one row per date and
+    /// asset; `-` reads standard input.
     pub panel: PathBuf,
     /// Name of the date column (YYYY-MM-DD, YYYY/MM/DD, YYYYMMDD, ISO 8601 date-times; Parquet dates and timestamps).
     #[arg(long, default_value = "date")]
@@ -155,8 +156,13 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     if a.study.horizons == Some(0) {
         return Err(Failure::input("`--horizons` must be at least 1, got 0"));
     }
-    let stem = a.panel.file_stem().map_or("panel".into(), |s| s.to_string_lossy().into_owned());
+    let stem = if a.panel.as_os_str() == "-" {
+        "stdin".to_string()
+    } else {
+        a.panel.file_stem().map_or("panel".into(), |s| s.to_string_lossy().into_owned())
+    };
     let out_dir = a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{stem}-measure")));
+    let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let mut read = read_panel(&a.panel, &opts).map_err(Failure::input)?;
     let covariates = std::mem::take(&mut read.covariates);
     crate::measure::neutralise::neutralise(&mut read.panel, &covariates);
@@ -275,7 +281,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
         "report.html".into(),
         report::html::render(&report::html::measure_page(&result, settings, charts.inline)),
     ));
-    report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
+    out.commit(&files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::measure_terminal(&result);
         text.push_str(&super::outputs_line(&out_dir, &files));

@@ -63,6 +63,7 @@ pub fn run(a: &PlanArgs) -> Result<(), Failure> {
     scenario.history = longest;
     let out_dir =
         a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-plan", scenario.name)));
+    let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let origin = a.scenario.display().to_string();
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
     let threads = threads(&a.study);
@@ -81,7 +82,7 @@ pub fn run(a: &PlanArgs) -> Result<(), Failure> {
         "report.html".into(),
         report::html::render(&report::html::plan_page(s, &result, &a.target, charts.inline)),
     ));
-    report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
+    out.commit(&files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::plan_terminal(s, &result);
         text.push_str(&super::outputs_line(&out_dir, &files));

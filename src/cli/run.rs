@@ -121,6 +121,7 @@ pub fn run(a: &RunArgs) -> Result<(), Failure> {
 fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(), Failure> {
     let name = &points[0].scenario.name;
     let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{name}-sweep")));
+    let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let threads = threads(a);
     let total: usize = points.iter().map(|p| p.scenario.paths).sum();
     let bar = progress::bar(total, a.quiet, "sweep");
@@ -146,7 +147,7 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
     let parameters = report::html::sweep_parameters(points);
     let page = report::html::sweep_page(name, &rows, parameters, charts.inline);
     files.push(("report.html".into(), report::html::render(&page)));
-    report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
+    out.commit(&files).map_err(Failure::other)?;
     if !a.quiet {
         let mut text = report::sweep_terminal(&rows);
         text.push_str(&super::outputs_line(&out_dir, &files));
@@ -171,6 +172,7 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
         scenario.portfolio.cost_bps = one;
     }
     let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(&scenario.name));
+    let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
     let sweep = if a.cost_bps.len() > 1 { a.cost_bps.clone() } else { Vec::new() };
     let (portfolio, result) = truth_and_study(&setup, a, &sweep);
@@ -188,7 +190,7 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     files.extend(charts.files);
     let page = report::html::study_page(&setup, &portfolio, &result, charts.inline);
     files.push(("report.html".into(), report::html::render(&page)));
-    report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
+    out.commit(&files).map_err(Failure::other)?;
     if !a.quiet {
         let mut text = report::terminal_summary(&setup, &portfolio, &result);
         text.push_str(&super::outputs_line(&out_dir, &files));

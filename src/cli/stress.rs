@@ -26,6 +26,7 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
     }
     let out_dir =
         a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-stress", scenario.name)));
+    let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let n_curves = 1 + if scenario.replace_default_alternatives { 0 } else { 4 } + scenario.alternatives.len();
     if n_curves == 1 {
         return Err(Failure::input(format!(
@@ -47,7 +48,7 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
     files.extend(charts.files);
     let page = report::html::stress_page(&scenario, &result, charts.inline);
     files.push(("report.html".into(), report::html::render(&page)));
-    report::write_atomically(&out_dir, &files).map_err(Failure::other)?;
+    out.commit(&files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::stress_terminal(&scenario, &result);
         text.push_str(&super::outputs_line(&out_dir, &files));
