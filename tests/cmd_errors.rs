@@ -163,3 +163,19 @@ fn stress_with_no_alternative_curve_is_refused() {
     has(&err, &["alone.toml", "replace_defaults", "[[stress.alternatives]]"]);
     assert!(!tmp.path().join("o").exists());
 }
+
+#[test]
+fn command_line_values_are_blamed_on_their_option_not_a_line() {
+    let text = format!("assets = 100\nhistory = 60\nhorizons = 6\n{DECAY}");
+    let err = fails(&text, &["--horizons", "0"]);
+    has(&err, &["option --horizons: `horizons` must be at least 1, got 0"]);
+    assert!(!err.contains("line"), "{err}");
+    let err = fails(&text, &["--history", "5"]);
+    has(&err, &["option --history: `history` must be at least horizons + 2 = 8"]);
+    // A rule on a file value that an option moved names both.
+    let err = fails(&text, &["--horizons", "100"]);
+    has(&err, &["bad.toml (with --horizons 100 from the command line), line 2", "horizons + 2 = 102"]);
+    // No wrapped arithmetic at the largest value.
+    let err = fails(&text, &["--horizons", "18446744073709551615"]);
+    has(&err, &["horizons + 2 = 18446744073709551615"]);
+}

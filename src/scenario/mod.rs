@@ -112,6 +112,22 @@ pub struct Overrides {
 }
 
 impl Overrides {
+    /// The options given, as `(flag, value)`.
+    pub fn given(&self) -> Vec<(&'static str, String)> {
+        let mut v = Vec::new();
+        let mut add = |flag, x: Option<String>| {
+            if let Some(x) = x {
+                v.push((flag, x));
+            }
+        };
+        add("--assets", self.assets.map(|x| x.to_string()));
+        add("--history", self.history.map(|x| x.to_string()));
+        add("--horizons", self.horizons.map(|x| x.to_string()));
+        add("--paths", self.paths.map(|x| x.to_string()));
+        add("--seed", self.seed.map(|x| x.to_string()));
+        v
+    }
+
     /// Writes the given overrides into a raw scenario.
     pub fn apply(&self, raw: &mut RawScenario) {
         if let Some(v) = self.assets {
@@ -159,11 +175,11 @@ impl Scenario {
         if raw.horizons < 1 {
             return Err(out_of_range("horizons", raw.horizons, "at least 1"));
         }
-        if raw.history <= raw.horizons + 1 {
+        if raw.history <= raw.horizons.saturating_add(1) {
             return Err(out_of_range(
                 "history",
                 raw.history,
-                &format!("at least horizons + 2 = {} (each horizon needs two dates)", raw.horizons + 2),
+                &format!("at least horizons + 2 = {} (each horizon needs two dates)", raw.horizons.saturating_add(2)),
             ));
         }
         // Memory guards: a history is held twice per worker, every path's curves once.
@@ -287,7 +303,23 @@ pub fn parse(text: &str, origin: &str) -> Result<RawScenario, InputError> {
 pub fn load(text: &str, origin: &str, default_name: &str, ov: &Overrides) -> Result<Scenario, InputError> {
     let mut raw = parse(text, origin)?;
     ov.apply(&mut raw);
-    Scenario::from_raw(&raw, default_name).map_err(|e| locate(e, text, origin))
+    Scenario::from_raw(&raw, default_name).map_err(|e| {
+        // A value given on the command line is blamed on its option, not on the file's line.
+        let given = ov.given();
+        if let ScenarioError::OutOfRange { key, .. } = &e
+            && let Some((flag, _)) = given.iter().find(|(flag, _)| flag[2..] == *key)
+        {
+            return InputError::Invalid { origin: format!("option {flag}"), line: None, source: e };
+        }
+        let mut err = locate(e, text, origin);
+        if let InputError::Invalid { origin, .. } = &mut err
+            && !given.is_empty()
+        {
+            let with: Vec<String> = given.iter().map(|(f, v)| format!("{f} {v}")).collect();
+            origin.push_str(&format!(" (with {} from the command line)", with.join(", ")));
+        }
+        err
+    })
 }
 
 /// Wraps a value error with the line of its key in `text`.
