@@ -47,12 +47,14 @@ pub enum ScenarioError {
 #[derive(Debug, thiserror::Error)]
 pub enum InputError {
     /// The file could not be read.
-    #[error("cannot read {path}: {source}")]
+    #[error("cannot read {path}: {source}{hint}")]
     Read {
         /// The file.
         path: PathBuf,
         /// What the OS said.
         source: std::io::Error,
+        /// For a missing file: the presets, led by a likely intended one.
+        hint: String,
     },
     /// TOML syntax, an unknown field or a wrong type (the message has the line).
     #[error("{origin}: {message}")]
@@ -73,7 +75,7 @@ pub enum InputError {
         source: ScenarioError,
     },
     /// A preset name that is not built in.
-    #[error("no preset named `{name}`; built-in presets: {known}")]
+    #[error("no preset named `{name}`; {known}")]
     UnknownPreset {
         /// The name asked for.
         name: String,

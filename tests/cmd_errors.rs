@@ -179,3 +179,16 @@ fn command_line_values_are_blamed_on_their_option_not_a_line() {
     let err = fails(&text, &["--horizons", "18446744073709551615"]);
     has(&err, &["horizons + 2 = 18446744073709551615"]);
 }
+
+#[test]
+fn a_preset_typo_suggests_the_preset_and_lists_them_all() {
+    for (cmd, name) in [("run", "monthly-stedy"), ("presets", "monthly-stedy"), ("stress", "Monthly-Steady")] {
+        let a = Command::cargo_bin("lagfold")
+            .unwrap()
+            .args([cmd, name, "-q"].iter().filter(|a| cmd != "presets" || **a != "-q"))
+            .assert()
+            .code(2);
+        let err = String::from_utf8(a.get_output().stderr.clone()).unwrap();
+        has(&err, &["did you mean `monthly-steady`?", "weekly-reversal"]);
+    }
+}

@@ -98,8 +98,14 @@ fn read_text(path: &Path) -> Result<(String, String, String), Failure> {
         let text = presets::text(&name).map_err(Failure::input)?;
         return Ok((text.to_string(), format!("preset {name}"), name.into_owned()));
     }
-    let text = std::fs::read_to_string(path)
-        .map_err(|e| Failure::input(crate::error::InputError::Read { path: path.to_path_buf(), source: e }))?;
+    let text = std::fs::read_to_string(path).map_err(|e| {
+        let hint = if e.kind() == std::io::ErrorKind::NotFound {
+            format!("; not a scenario file, nor a preset: {}", presets::known_words(&name))
+        } else {
+            String::new()
+        };
+        Failure::input(crate::error::InputError::Read { path: path.to_path_buf(), source: e, hint })
+    })?;
     let stem = path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| "scenario".into());
     Ok((text, path.display().to_string(), stem))
 }

@@ -19,8 +19,58 @@ pub const ALL: &[(&str, &str)] = &[
 /// # Errors
 /// [`InputError::UnknownPreset`] listing the known names.
 pub fn text(name: &str) -> Result<&'static str, InputError> {
-    ALL.iter().find(|(n, _)| *n == name).map(|(_, t)| *t).ok_or_else(|| InputError::UnknownPreset {
-        name: name.to_string(),
-        known: ALL.iter().map(|(n, _)| *n).collect::<Vec<_>>().join(", "),
-    })
+    ALL.iter()
+        .find(|(n, _)| *n == name)
+        .map(|(_, t)| *t)
+        .ok_or_else(|| InputError::UnknownPreset { name: name.to_string(), known: known_words(name) })
+}
+
+/// The built-in names, led by the closest one when `name` looks like a typo of it.
+pub fn known_words(name: &str) -> String {
+    let list = ALL.iter().map(|(n, _)| *n).collect::<Vec<_>>().join(", ");
+    match closest(name) {
+        Some(c) => format!("did you mean `{c}`? Built-in presets: {list}"),
+        None => format!("built-in presets: {list}"),
+    }
+}
+
+/// The preset within three edits of `name` (Levenshtein, 1966), or whose
+/// name starts with it.
+pub fn closest(name: &str) -> Option<&'static str> {
+    let lower = name.to_ascii_lowercase();
+    ALL.iter()
+        .map(|(n, _)| (*n, if n.starts_with(&lower) && !lower.is_empty() { 0 } else { edits(&lower, n) }))
+        .filter(|(_, d)| *d <= 3)
+        .min_by_key(|(_, d)| *d)
+        .map(|(n, _)| n)
+}
+
+/// Levenshtein distance between two strings (by characters).
+fn edits(a: &str, b: &str) -> usize {
+    let b: Vec<char> = b.chars().collect();
+    let mut row: Vec<usize> = (0..=b.len()).collect();
+    for (i, ca) in a.chars().enumerate() {
+        let mut prev = row[0];
+        row[0] = i + 1;
+        for j in 0..b.len() {
+            let cur = row[j + 1];
+            row[j + 1] = (prev + usize::from(ca != b[j])).min(row[j] + 1).min(cur + 1);
+            prev = cur;
+        }
+    }
+    row[b.len()]
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn typos_and_prefixes_find_their_preset() {
+        assert_eq!(closest("monthly-stedy"), Some("monthly-steady"));
+        assert_eq!(closest("weekly-rev"), Some("weekly-reversal"));
+        assert_eq!(closest("Daily-Slow-Burn"), Some("daily-slow-burn"));
+        assert_eq!(closest("my-signal.toml"), None);
+        assert_eq!(edits("kitten", "sitting"), 3);
+    }
 }
