@@ -192,3 +192,19 @@ fn a_preset_typo_suggests_the_preset_and_lists_them_all() {
         has(&err, &["did you mean `monthly-steady`?", "weekly-reversal"]);
     }
 }
+
+#[test]
+fn negative_numbers_are_values_refused_by_their_option() {
+    let a = Command::cargo_bin("lagfold")
+        .unwrap()
+        .args(["run", "monthly-steady", "--cost-bps", "-3", "-q"])
+        .assert()
+        .code(2);
+    let err = String::from_utf8(a.get_output().stderr.clone()).unwrap();
+    has(&err, &["must be in [0, 10000) basis points, got -3"]);
+    let a =
+        Command::cargo_bin("lagfold").unwrap().args(["run", "monthly-steady", "--paths", "-3", "-q"]).assert().code(2);
+    let err = String::from_utf8(a.get_output().stderr.clone()).unwrap();
+    has(&err, &["invalid value '-3' for '--paths"]);
+    assert!(!err.contains("tip"), "{err}");
+}

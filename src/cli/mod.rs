@@ -22,20 +22,27 @@ pub struct Cli {
     pub command: Command,
 }
 
-/// The subcommands.
+/// The subcommands. Negative numbers are read as values, so `--seed -3` is
+/// refused with the option's allowed range rather than a tip about `--`.
 #[derive(Debug, Subcommand)]
 pub enum Command {
     /// Run the study on a scenario file (or a built-in preset name).
+    #[command(allow_negative_numbers = true)]
     Run(run::RunArgs),
     /// Run the study on the built-in default scenario.
+    #[command(allow_negative_numbers = true)]
     Demo(run::StudyArgs),
     /// How much history is needed: every rule's record over a grid of history lengths.
+    #[command(allow_negative_numbers = true)]
     Plan(plan::PlanArgs),
     /// What a choice made under the assumed decay costs when another curve is true.
+    #[command(allow_negative_numbers = true)]
     Stress(stress::StressArgs),
     /// Measure your own panel's lagged and horizon ICs and its best horizon.
+    #[command(allow_negative_numbers = true)]
     Measure(measure::MeasureArgs),
     /// Write one simulated history as a long CSV (date, asset, forecast, return).
+    #[command(allow_negative_numbers = true)]
     Panel(panel::PanelArgs),
     /// List the built-in presets, or print one as TOML.
     Presets(presets_cmd::PresetsArgs),
