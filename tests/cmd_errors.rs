@@ -208,3 +208,38 @@ fn negative_numbers_are_values_refused_by_their_option() {
     has(&err, &["invalid value '-3' for '--paths"]);
     assert!(!err.contains("tip"), "{err}");
 }
+
+#[test]
+fn counts_and_seeds_that_are_not_whole_numbers_are_refused_in_plain_words() {
+    for (opt, value, words) in [
+        ("--paths", "abc", "`abc` is not a number; use a positive whole number"),
+        ("--assets", "1.5", "`1.5` is not a whole number"),
+        ("--history", "-3", "`-3` is negative"),
+        ("--seed", "-1", "a seed is a whole number from 0 to 18446744073709551615"),
+    ] {
+        let a =
+            Command::cargo_bin("lagfold").unwrap().args(["run", "monthly-steady", opt, value, "-q"]).assert().code(2);
+        let err = String::from_utf8(a.get_output().stderr.clone()).unwrap();
+        has(&err, &[words, opt]);
+        assert!(!err.contains("invalid digit"), "{err}");
+    }
+    // The largest seed is valid.
+    let tmp = tempfile::tempdir().unwrap();
+    Command::cargo_bin("lagfold")
+        .unwrap()
+        .args([
+            "panel",
+            "monthly-steady",
+            "--assets",
+            "30",
+            "--history",
+            "30",
+            "--seed",
+            "18446744073709551615",
+            "-q",
+            "--out",
+        ])
+        .arg(tmp.path().join("p.csv"))
+        .assert()
+        .success();
+}

@@ -48,6 +48,25 @@ pub enum Command {
     Presets(presets_cmd::PresetsArgs),
 }
 
+/// A count from the command line, refused in plain words: the value
+/// found and what is allowed (the option's own range is checked with the
+/// scenario, which names it).
+pub(crate) fn whole(s: &str) -> Result<usize, String> {
+    let t = s.trim();
+    t.parse::<usize>().map_err(|_| match t.parse::<f64>() {
+        Ok(v) if v < 0.0 => format!("`{t}` is negative; use a positive whole number such as 400"),
+        Ok(_) => format!("`{t}` is not a whole number; use a positive whole number such as 400"),
+        Err(_) => format!("`{t}` is not a number; use a positive whole number such as 400"),
+    })
+}
+
+/// A seed: a whole number from 0 to 18446744073709551615 (2^64 − 1).
+pub(crate) fn seed(s: &str) -> Result<u64, String> {
+    s.trim()
+        .parse::<u64>()
+        .map_err(|_| format!("`{}`: a seed is a whole number from 0 to 18446744073709551615", s.trim()))
+}
+
 /// A command's failure with its exit code.
 #[derive(Debug)]
 pub struct Failure {

@@ -21,13 +21,13 @@ pub struct PanelArgs {
     #[arg(long)]
     pub out: Option<PathBuf>,
     /// Breadth N.
-    #[arg(long)]
+    #[arg(long, value_parser = super::whole)]
     pub assets: Option<usize>,
     /// Dates in the history.
-    #[arg(long)]
+    #[arg(long, value_parser = super::whole)]
     pub history: Option<usize>,
     /// Master seed.
-    #[arg(long)]
+    #[arg(long, value_parser = super::seed)]
     pub seed: Option<u64>,
     /// Which simulated history of the study to write (its path index).
     #[arg(long, default_value_t = 0)]

@@ -12,19 +12,19 @@ use std::path::{Path, PathBuf};
 #[derive(Debug, Clone, clap::Args)]
 pub struct StudyArgs {
     /// Breadth N (assets per date).
-    #[arg(long)]
+    #[arg(long, value_parser = super::whole)]
     pub assets: Option<usize>,
     /// History T (dates per simulated history).
-    #[arg(long)]
+    #[arg(long, value_parser = super::whole)]
     pub history: Option<usize>,
     /// Longest horizon L studied.
-    #[arg(long)]
+    #[arg(long, value_parser = super::whole)]
     pub horizons: Option<usize>,
     /// Simulated histories.
-    #[arg(long)]
+    #[arg(long, value_parser = super::whole)]
     pub paths: Option<usize>,
     /// Master seed.
-    #[arg(long)]
+    #[arg(long, value_parser = super::seed)]
     pub seed: Option<u64>,
     /// Worker threads (default: all cores); results do not depend on it.
     #[arg(long, value_parser = clap::value_parser!(u16).range(1..=1024))]
