@@ -26,14 +26,17 @@ pub fn civil_from_days(z: i64) -> (i64, u32, u32) {
     (yoe + era * 400 + i64::from(m <= 2), m, d)
 }
 
+/// Days since 1970-01-01 as an ISO date, `YYYY-MM-DD`.
+pub fn iso(days: i64) -> String {
+    let (y, m, d) = civil_from_days(days);
+    format!("{y:04}-{m:02}-{d:02}")
+}
+
 /// `n` dates at the frequency `periods_per_year` starting in January 2001:
 /// month ends for 12, Fridays for 52, weekdays for 250–262, otherwise every
 /// `365.25 / periods_per_year` days.
 pub fn dates(n: usize, periods_per_year: f64) -> Vec<String> {
-    let fmt = |z: i64| {
-        let (y, m, d) = civil_from_days(z);
-        format!("{y:04}-{m:02}-{d:02}")
-    };
+    let fmt = iso;
     let start = days_from_civil(2001, 1, 1);
     match periods_per_year {
         p if (p - 12.0).abs() < 0.01 => (0..n as i64)

@@ -8,7 +8,7 @@
 //! with `backward`, the return on a row is over the period that *ends* at its
 //! date, and is moved one date back before measuring.
 
-use crate::calendar::days_from_civil;
+use crate::calendar::{days_from_civil, iso};
 use crate::measure::Panel;
 use crate::measure::neutralise::Covariates;
 use std::collections::HashMap;
@@ -336,11 +336,6 @@ fn period_date(freq: Frequency, first: i64, i: i64) -> String {
     iso(z)
 }
 
-fn iso(z: i64) -> String {
-    let (y, m, d) = crate::calendar::civil_from_days(z);
-    format!("{y:04}-{m:02}-{d:02}")
-}
-
 /// Days since 1970-01-01 of a calendar date, if it is one.
 fn civil(y: i64, m: u32, d: u32) -> Option<i64> {
     let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
@@ -554,13 +549,12 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
     cells.sort_unstable_by_key(|c| (c.0, c.1, c.2));
     if let Some(w) = cells.windows(2).find(|w| (w[0].0, w[0].1) == (w[1].0, w[1].1)) {
         let day = date_ids.iter().find(|(_, id)| **id == w[1].0).map_or(0, |(z, _)| *z);
-        let (y, m, d) = crate::calendar::civil_from_days(day);
         let asset = asset_ids.iter().find(|(_, id)| **id == w[1].1).map(|(k, _)| k.clone()).unwrap_or_default();
         return Err(ReadError::Duplicate {
             path: path.to_path_buf(),
             line: Loc { n: w[1].2, parquet },
             first: Loc { n: w[0].2, parquet },
-            date: format!("{y:04}-{m:02}-{d:02}"),
+            date: iso(day),
             asset,
         });
     }
@@ -687,7 +681,7 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
             panel.returns[rr * n + a] = r;
         }
     }
-    panel.has_missing = panel.forecasts.iter().chain(&panel.returns).any(|x| x.is_nan());
+    panel.refresh_missing();
     let mut dates: Vec<String> = (0..t as i64).map(|i| period_date(frequency, day_list[0], i)).collect();
     for (pos, &(z, _)) in days.iter().enumerate() {
         dates[index[pos] as usize] = iso(z);

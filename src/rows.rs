@@ -6,6 +6,7 @@
 //! date and any other timestamp `YYYY-MM-DDTHH:MM:SS` (UTC, fractions of a
 //! second kept), numbers in their shortest exact form.
 
+use crate::calendar::iso;
 use parquet::file::reader::{FileReader, SerializedFileReader};
 use parquet::record::Field;
 use parquet::record::reader::RowIter;
@@ -32,12 +33,6 @@ fn is_parquet_file(path: &Path) -> std::io::Result<bool> {
         }
     }
     Ok(got == 4 && &head == b"PAR1")
-}
-
-/// Days since 1970-01-01 as an ISO date.
-fn iso(days: i64) -> String {
-    let (y, m, d) = crate::calendar::civil_from_days(days);
-    format!("{y:04}-{m:02}-{d:02}")
 }
 
 /// A timestamp in microseconds since the epoch (UTC) as a date, or a date-time off midnight.

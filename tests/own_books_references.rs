@@ -63,7 +63,10 @@ fn information_ratio_and_turnover_follow_the_closed_forms() {
 #[test]
 fn missing_values_thin_the_book_without_breaking_it() {
     // A tenth of forecasts and returns missing: every period still books, and the
-    // one-period IR stays within reach of the full panel's (the same draws).
+    // one-period IR stays within reach of the full panel's (the same draws). Dropped
+    // forecasts and returns taken as the date's mean lose roughly 10–20 % of the
+    // signal, against a per-period IR of 1.1 with σ 0.075 (Lo, 2002); the bound of a
+    // half is a loose robustness check, not a closed form.
     let full = panel(12);
     let mut thin = full.clone();
     let mut u = common::uniforms(13);

@@ -55,13 +55,13 @@ fn summary(name: &str, kind: &str, c: &Core, dates: usize) -> SignalSummary {
 
 /// Measures `forecasts` in place of the panel's own (and puts them back).
 fn measure_with(read: &mut ReadPanel, forecasts: &mut Vec<f64>, s: &Settings) -> Option<Core> {
-    std::mem::swap(&mut read.panel.forecasts, forecasts);
     let p = &mut read.panel;
-    p.has_missing = p.forecasts.iter().chain(&p.returns).any(|x| x.is_nan());
+    let own_flag = p.has_missing;
+    std::mem::swap(&mut p.forecasts, forecasts);
+    p.refresh_missing();
     let c = core(p, s, false);
-    std::mem::swap(&mut read.panel.forecasts, forecasts);
-    let p = &mut read.panel;
-    p.has_missing = p.forecasts.iter().chain(&p.returns).any(|x| x.is_nan());
+    std::mem::swap(&mut p.forecasts, forecasts);
+    p.has_missing = own_flag;
     c
 }
 

@@ -17,7 +17,7 @@ pub fn standardise_row(row: &mut [f64]) {
     let mean = sum / n.max(1) as f64;
     let ss: f64 = row.iter().filter(|v| v.is_finite()).map(|v| (v - mean) * (v - mean)).sum();
     let sd = (ss / n.max(1) as f64).sqrt();
-    if n < 2 || sd.is_nan() || sd <= 0.0 || !sd.is_finite() {
+    if n < 2 || sd <= 0.0 || !sd.is_finite() {
         row.iter_mut().for_each(|v| *v = f64::NAN);
         return;
     }

@@ -103,7 +103,7 @@ pub fn neutralise(panel: &mut Panel, cov: &Covariates) {
             residualise_row(&mut panel.returns[t * n..(t + 1) * n], cov, t * n);
         }
     }
-    panel.has_missing = panel.forecasts.iter().chain(&panel.returns).any(|x| x.is_nan());
+    panel.refresh_missing();
 }
 
 /// Neutralises one more forecast matrix (`dates × assets`, row-major) on

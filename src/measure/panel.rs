@@ -34,6 +34,11 @@ impl Panel {
         }
     }
 
+    /// Sets `has_missing` from the values.
+    pub fn refresh_missing(&mut self) {
+        self.has_missing = self.forecasts.iter().chain(&self.returns).any(|x| x.is_nan());
+    }
+
     /// Forecasts at date `t`.
     pub fn forecast_row(&self, t: usize) -> &[f64] {
         &self.forecasts[t * self.assets..(t + 1) * self.assets]

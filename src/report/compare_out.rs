@@ -89,8 +89,7 @@ impl SignalComparison {
 }
 
 fn trim(x: f64) -> String {
-    let s = format!("{x:.4}");
-    s.trim_end_matches('0').trim_end_matches('.').to_string()
+    super::charts::parts::trim_to(x, 4)
 }
 
 /// `name` cut to `width` characters (an ellipsis marks a cut).

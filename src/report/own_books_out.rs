@@ -147,8 +147,7 @@ pub fn own_books_terminal(b: &OwnBooks) -> String {
 }
 
 fn trim(x: f64) -> String {
-    let s = format!("{x:.2}");
-    s.trim_end_matches('0').trim_end_matches('.').to_string()
+    super::charts::parts::trim_to(x, 2)
 }
 
 /// `holdings.csv`: one row per holding length — turnover, gross IR and its

@@ -83,8 +83,13 @@ pub fn share_bars(counts: &[u64], colour: Colour, label: &str) -> Layer {
 
 /// A number with at most one decimal and no trailing zeros: 2.5, 10.
 pub fn trim(x: f64) -> String {
-    let s = format!("{x:.1}");
-    s.trim_end_matches('0').trim_end_matches('.').to_string()
+    trim_to(x, 1)
+}
+
+/// A number with at most `decimals` decimals and no trailing zeros.
+pub fn trim_to(x: f64, decimals: usize) -> String {
+    let s = format!("{x:.decimals$}");
+    if s.contains('.') { s.trim_end_matches('0').trim_end_matches('.').to_string() } else { s }
 }
 
 /// "1 month", "7 months".
