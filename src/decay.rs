@@ -9,8 +9,8 @@ use crate::error::ScenarioError;
 
 /// One decay-curve family with its parameters, as written in a scenario's
 /// `[decay]` table (`family = "..."`). [`DecayCurve::new`] checks the values.
-#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
-#[serde(tag = "family", rename_all = "snake_case", deny_unknown_fields)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+#[serde(tag = "family", rename_all = "snake_case")]
 pub enum DecayShape {
     /// `IC_k = ic1 · 2^{−(k−1)/h}`.
     Exponential {
@@ -33,7 +33,6 @@ pub enum DecayShape {
         /// Lag `p` of the peak.
         peak_lag: f64,
         /// Shape `a` (larger is narrower; default 2).
-        #[serde(default = "default_hump_shape")]
         shape: f64,
     },
     /// `IC_k = ic1 · k^{−a}`.
@@ -64,9 +63,8 @@ pub struct DecayCurve {
     shape: DecayShape,
 }
 
-fn default_hump_shape() -> f64 {
-    2.0
-}
+/// The hump shape `a` when the scenario gives none.
+pub const DEFAULT_HUMP_SHAPE: f64 = 2.0;
 
 fn check_ic(key: &str, v: f64) -> Result<f64, ScenarioError> {
     if v.is_finite() && v > -1.0 && v < 1.0 { Ok(v) } else { Err(out_of_range(key, v, "inside (-1, 1)")) }
@@ -77,7 +75,14 @@ fn check_positive(key: &str, v: f64) -> Result<f64, ScenarioError> {
 }
 
 pub(crate) fn out_of_range(key: &str, v: impl std::fmt::Display, allowed: &str) -> ScenarioError {
-    ScenarioError::OutOfRange { key: key.to_string(), value: v.to_string(), allowed: allowed.to_string() }
+    let mut value = v.to_string();
+    // A number of many digits (1e300 prints in full) is shown in scientific form.
+    if value.len() > 12
+        && let Ok(x) = value.parse::<f64>()
+    {
+        value = format!("{x:e}");
+    }
+    ScenarioError::OutOfRange { key: key.to_string(), value, allowed: allowed.to_string() }
 }
 
 impl DecayCurve {

@@ -16,6 +16,24 @@ pub enum ScenarioError {
         /// The allowed range in words.
         allowed: String,
     },
+    /// A key that is given but would change nothing (it belongs to another family).
+    #[error("`{key}` = {value} has no effect {reason}; remove it or change the family")]
+    NoEffect {
+        /// Key path, e.g. `tails.dof`.
+        key: String,
+        /// The value as given.
+        value: String,
+        /// Why it has no effect.
+        reason: String,
+    },
+    /// A key the chosen family needs.
+    #[error("`{key}` is required {reason}")]
+    Missing {
+        /// Key path, e.g. `decay.half_life`.
+        key: String,
+        /// Which family needs it.
+        reason: String,
+    },
     /// The loadings and the IC volatility leave no room for idiosyncratic noise.
     #[error(
         "infeasible variance: the decay curve needs sum of squared loadings {sum_b2:.4} and \
@@ -43,6 +61,30 @@ pub enum ScenarioError {
     },
 }
 
+impl ScenarioError {
+    /// The same error with its key path put under `prefix`
+    /// (`decay.ic1` → `stress.alternatives[2].decay.ic1`).
+    #[must_use]
+    pub fn under(self, prefix: &str) -> Self {
+        match self {
+            Self::OutOfRange { key, value, allowed } => {
+                Self::OutOfRange { key: format!("{prefix}.{key}"), value, allowed }
+            }
+            Self::NoEffect { key, value, reason } => Self::NoEffect { key: format!("{prefix}.{key}"), value, reason },
+            Self::Missing { key, reason } => Self::Missing { key: format!("{prefix}.{key}"), reason },
+            other => other,
+        }
+    }
+
+    /// The key path the error is about, when it has one.
+    pub fn key(&self) -> Option<&str> {
+        match self {
+            Self::OutOfRange { key, .. } | Self::NoEffect { key, .. } | Self::Missing { key, .. } => Some(key),
+            _ => None,
+        }
+    }
+}
+
 /// Errors reading a scenario file or a built-in preset.
 #[derive(Debug, thiserror::Error)]
 pub enum InputError {
@@ -56,12 +98,14 @@ pub enum InputError {
         /// For a missing file: the presets, led by a likely intended one.
         hint: String,
     },
-    /// TOML syntax, an unknown field or a wrong type (the message has the line).
-    #[error("{origin}: {message}")]
+    /// TOML syntax, an unknown field or a wrong type.
+    #[error("{origin}{}: {message}", line.map(|l| format!(", line {l}")).unwrap_or_default())]
     Parse {
         /// File name or `preset <name>`.
         origin: String,
-        /// The parser's message, with line and column.
+        /// 1-based line, when known.
+        line: Option<usize>,
+        /// What was wrong, in words.
         message: String,
     },
     /// A value out of range, with the line where the key was found.

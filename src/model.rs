@@ -268,13 +268,26 @@ mod tests {
     }
 
     #[test]
-    fn loadings_reproduce_the_pooled_curve() {
-        // g_k = sqrt(1−ρ²)·Σ_{j≥k} b_j·ρ^{j−k} (MODEL.md §1) must give back every g_k.
-        let m = Model::new(&scenario("forecast_autocorrelation = 0.7\nic_vol = 0.2")).unwrap();
-        let c = (1.0 - m.rho * m.rho).sqrt();
-        for k in 1..=m.truncation() {
-            let g: f64 = (k..=m.loadings_used()).map(|j| m.loadings[j - 1] * m.rho.powi((j - k) as i32)).sum();
-            assert!((c * g - m.g(k)).abs() < 1e-14, "lag {k}");
+    fn loadings_reproduce_the_calibrated_pooled_curve() {
+        // The calibration gives g_k = (IC_k − ρ^{k−1}·E1)/E0 (MODEL.md §1); the
+        // loadings are its inverse b_k = (g_k − ρ·g_{k+1})/sqrt(1−ρ²) (or the
+        // exact two-exponential form), and the forward sum
+        // sqrt(1−ρ²)·Σ_{j≥k} b_j·ρ^{j−k} must give g_k back up to the cut tail.
+        // Catches: loadings without the 1/sqrt(1−ρ²) scale, a wrong sign of ρ in
+        // the inverse, or a calibration that ignores E1.
+        for decay in ["exponential\"\nic1 = 0.05\nhalf_life = 3", "hump\"\npeak = 0.04\npeak_lag = 3"] {
+            let text = format!(
+                "assets = 100\nhistory = 60\nhorizons = 12\nforecast_autocorrelation = 0.7\nic_vol = 0.2\n\
+                 [decay]\nfamily = \"{decay}\n"
+            );
+            let m = Model::new(&load(&text, "test", "t", &Overrides::default()).unwrap()).unwrap();
+            let (e0, e1) = m.shock_moments;
+            let c = (1.0 - m.rho * m.rho).sqrt();
+            for k in 1..=m.truncation() {
+                let calibrated = (m.target[k - 1] - m.rho.powi(k as i32 - 1) * e1) / e0;
+                let g: f64 = (k..=m.loadings_used()).map(|j| m.loadings[j - 1] * m.rho.powi((j - k) as i32)).sum();
+                assert!((c * g - calibrated).abs() < 4.0 * TAIL, "{decay} lag {k}: {} vs {calibrated}", c * g);
+            }
         }
     }
 

@@ -2,6 +2,13 @@
 
 use serde::Serialize;
 
+/// Tolerance of the project's statistical tests, in standard errors. Each
+/// test has a fixed seed, so it is deterministic; a correct estimator lands
+/// beyond 4 standard errors with probability 6.3·10⁻⁵ (two-sided normal), so
+/// a change of seed rarely trips a correct test, while a bias of a few
+/// standard errors fails it. One constant, so that it is stated once.
+pub const CHECK_SIGMAS: f64 = 4.0;
+
 /// Running mean and variance (Welford, 1962), merged in a fixed order.
 #[derive(Debug, Clone, Copy, Default)]
 pub struct Moments {

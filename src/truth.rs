@@ -246,12 +246,19 @@ mod tests {
     }
 
     #[test]
-    fn simple_form_matches_qhs_formula_directly() {
+    fn simple_form_matches_the_geometric_closed_form() {
+        // Qian, Hua and Sorensen (2007): H(n) = Σ_{k≤n} IC_k/sqrt(n); for
+        // IC_k = IC_1·λ^{k−1} the sum is geometric, H(n) = IC_1·(1 − λ^n)/((1 − λ)·sqrt(n)).
+        // Catches: a lag off by one (λ^k), or dividing by n instead of sqrt(n).
         let (_, t) = truth("", "family = \"exponential\"\nic1 = 0.05\nhalf_life = 3");
-        let ic = |k: usize| 0.05 * 2f64.powf(-((k - 1) as f64) / 3.0);
+        let lambda = 2f64.powf(-1.0 / 3.0);
         for n in [1usize, 5, 12, 40] {
-            let want: f64 = (1..=n).map(ic).sum::<f64>() / (n as f64).sqrt();
-            assert!((t.horizon_ic_simple[n - 1] - want).abs() < 1e-15);
+            let want = 0.05 * (1.0 - lambda.powi(n as i32)) / ((1.0 - lambda) * (n as f64).sqrt());
+            assert!(
+                (t.horizon_ic_simple[n - 1] - want).abs() < 1e-14,
+                "n {n}: {} vs {want}",
+                t.horizon_ic_simple[n - 1]
+            );
         }
     }
 

@@ -7,15 +7,11 @@
 //! seed), after the finite-breadth bias of a sample correlation,
 //! `E r ≈ ρ·(1 − (1−ρ²)/(2N))` (Fisher, 1915).
 
+use lagfold::stats::CHECK_SIGMAS;
 mod common;
 
-use common::{expected_sample_corr, mean_se, setup};
-use lagfold::generate::Workspace;
-use lagfold::measure::Measurement;
+use common::{expected_sample_corr, mean_se, per_path_means as simulate, setup};
 use lagfold::model::Kernel;
-use lagfold::rng::path_rng;
-use lagfold::study::Setup;
-use rayon::prelude::*;
 
 /// Every family; the two exponentials cover both kernels (half-life 3 cut at
 /// lag 48 keeps a visible tail, so it is convolved; half-life 2 is generated
@@ -29,22 +25,6 @@ const FAMILIES: [&str; 7] = [
     "family = \"step\"\nic = 0.04\nlength = 5",
     "family = \"table\"\nvalues = [0.05, 0.03, 0.01, -0.01, -0.02, -0.01]",
 ];
-
-/// Per path: (mean lagged IC, lagged IC on the first date, mean horizon IC).
-fn simulate(s: &Setup) -> Vec<(Vec<f64>, Vec<f64>, Vec<f64>)> {
-    (0..s.scenario.paths)
-        .into_par_iter()
-        .map_init(
-            || (Workspace::default(), Measurement::new(s.scenario.horizons, false)),
-            |(ws, m), p| {
-                s.generator.simulate(&mut path_rng(s.scenario.seed, p as u64), ws);
-                m.update(&ws.panel);
-                let first = (1..=s.scenario.horizons).map(|k| m.lagged.series(k)[0]).collect();
-                (m.lagged.means(), first, m.horizon.means())
-            },
-        )
-        .collect()
-}
 
 fn check(extra: &str, assets: usize) {
     let mut kernels = Vec::new();
@@ -64,12 +44,18 @@ fn check(extra: &str, assets: usize) {
                 ("first-date lagged IC", out.iter().map(|o| o.1[k - 1]).collect()),
             ] {
                 let (m, se) = mean_se(&col);
-                assert!((m - want).abs() < 4.0 * se, "{fam} {extra}: {what} at lag {k} = {m}, target {want}, se {se}");
+                assert!(
+                    (m - want).abs() < CHECK_SIGMAS * se,
+                    "{fam} {extra}: {what} at lag {k} = {m}, target {want}, se {se}"
+                );
             }
             let col: Vec<f64> = out.iter().map(|o| o.2[k - 1]).collect();
             let (m, se) = mean_se(&col);
             let want = expected_sample_corr(t.h(k), assets);
-            assert!((m - want).abs() < 4.0 * se, "{fam} {extra}: mean horizon IC at {k} = {m}, truth {want}, se {se}");
+            assert!(
+                (m - want).abs() < CHECK_SIGMAS * se,
+                "{fam} {extra}: mean horizon IC at {k} = {m}, truth {want}, se {se}"
+            );
         }
     }
     assert!(matches!(kernels[0], Kernel::Convolution) && matches!(kernels[1], Kernel::TwoExponential { .. }));
@@ -80,6 +66,14 @@ fn every_family_is_reproduced_without_ic_shocks() {
     check("forecast_autocorrelation = 0.6", 500);
 }
 
+/// What this case can and cannot see (probed by mutation): a Student-t law
+/// left at variance ν/(ν−2) instead of 1 moves the lag-2 IC by 6 standard
+/// errors and fails it. The shock calibration's own shift, about
+/// `ic_vol²·g_1` = 0.0024 at lag 1, is only 2 standard errors here (persistent
+/// shocks make every history's mean noisy), so removing the calibration
+/// passes this case; `calibration_for_ic_shocks_is_visible_and_right` below
+/// (ψ = 0, ten standard errors) and the high-power tier
+/// (`tests/high_power.rs`) catch that.
 #[test]
 fn every_family_is_reproduced_with_persistent_ic_shocks_and_fat_tails() {
     check(
@@ -101,6 +95,6 @@ fn calibration_for_ic_shocks_is_visible_and_right() {
     let col: Vec<f64> = out.iter().map(|o| o.0[0]).collect();
     let (m, se) = mean_se(&col); // ≈ 1e-3
     let want = expected_sample_corr(0.06, 200);
-    assert!((m - want).abs() < 4.0 * se, "mean lagged IC {m}, target {want}, se {se}");
+    assert!((m - want).abs() < CHECK_SIGMAS * se, "mean lagged IC {m}, target {want}, se {se}");
     assert!((m - s.model.g(1)).abs() > 6.0 * se, "pooled g1 {} is distinguishable from {m}", s.model.g(1));
 }

@@ -5,6 +5,7 @@
 //! degrees of freedom and the fitted decay — and breadth and history are
 //! exact.
 
+use lagfold::stats::CHECK_SIGMAS;
 mod common;
 
 use common::{mean_se, setup};
@@ -52,6 +53,9 @@ fn every_calibrated_field_is_recovered_from_simulated_panels() {
         ("fitted half-life", &half, 3.0, 0.0),
     ] {
         let (mean, se) = mean_se(xs);
-        assert!((mean - truth).abs() < 4.0 * se + allowance, "{name}: mean {mean:.4} ± {se:.4} vs truth {truth}");
+        assert!(
+            (mean - truth).abs() < CHECK_SIGMAS * se + allowance,
+            "{name}: mean {mean:.4} ± {se:.4} vs truth {truth}"
+        );
     }
 }

@@ -119,7 +119,12 @@ fn portfolio_settings_are_checked() {
         ],
     );
     let err = fails(&format!("{DECAY}[portfolio]\nreference_paths = 3\n"), &[]);
-    has(&err, &["`portfolio.reference_paths` must be at least 10, got 3"]);
+    has(
+        &err,
+        &[
+            "`portfolio.reference_paths` must be from 10 to 100000 (each is one more simulated history with its books), got 3",
+        ],
+    );
     let err = fails(&format!("{DECAY}[portfolio]\nslippage = 3\n"), &[]);
     has(&err, &["line 6", "slippage"]);
 }

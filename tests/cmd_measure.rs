@@ -5,6 +5,7 @@ use lagfold::generate::Workspace;
 use lagfold::measure::Measurement;
 use lagfold::rng::path_rng;
 use lagfold::scenario::{self, Overrides, presets};
+use lagfold::stats::CHECK_SIGMAS;
 use lagfold::study::Setup;
 use serde_json::Value;
 use std::path::Path;
@@ -61,7 +62,7 @@ fn a_simulated_panel_measures_as_in_memory() {
     for k in 0..3 {
         let truth = setup.truth.lagged_ic[k];
         assert!(
-            (got[k] - truth).abs() < 4.0 * se[k] + truth / 300.0,
+            (got[k] - truth).abs() < CHECK_SIGMAS * se[k] + truth / 300.0,
             "lag {}: {} vs truth {truth}, se {}",
             k + 1,
             got[k],
@@ -151,7 +152,7 @@ fn a_look_ahead_signal_is_not_found() {
         .success();
     let m = measure_json(&tmp.path().join("b"));
     let (ic, se) = (m["lagged_ic"]["mean"][0].as_f64().unwrap(), m["lagged_ic"]["se"][0].as_f64().unwrap());
-    assert!(ic.abs() < 4.0 * se, "lag-1 IC {ic}, se {se}");
+    assert!(ic.abs() < CHECK_SIGMAS * se, "lag-1 IC {ic}, se {se}");
     lagfold()
         .arg("measure")
         .arg(&csv)

@@ -2,6 +2,7 @@
 //! lets a non-finite figure reach an output; calendar gaps, return timing,
 //! the success ratio, extreme units and the memory budget.
 
+use lagfold::stats::CHECK_SIGMAS;
 mod common;
 
 use assert_cmd::Command;
@@ -298,7 +299,7 @@ fn the_success_ratio_follows_sheppard_for_scores_and_grinold_kahn_for_two_values
     let (implied, observed) = (sr["implied"].as_f64().unwrap(), sr["observed"].as_f64().unwrap());
     // Both estimate 0.6 from 7,800 pairs; with balanced ±1 forecasts they agree to rounding of the demeaning.
     assert!(
-        (implied - observed).abs() < 0.01 && (observed - 0.6).abs() < 4.0 * (0.24f64 / 7800.0).sqrt(),
+        (implied - observed).abs() < 0.01 && (observed - 0.6).abs() < CHECK_SIGMAS * (0.24f64 / 7800.0).sqrt(),
         "{implied} {observed}"
     );
 }

@@ -28,6 +28,7 @@
 //! per-date one: `σ ≤ √(n/((N − 1)·m))`. Per-date correlations also carry an
 //! O(ρ/N) bias (Fisher, 1915), under 0.0002 here, far inside 4σ.
 
+use lagfold::stats::CHECK_SIGMAS;
 mod common;
 
 use assert_cmd::Command;
@@ -146,7 +147,7 @@ fn each_signal_and_the_blend_match_their_truth_and_the_blend_moves_the_optimum()
                 let sigma = (overlap / ((ASSETS - 1) as f64 * dates[k])).sqrt();
                 let z = (mean[k] - truth[k]) / sigma;
                 assert!(
-                    z.abs() < 4.0,
+                    z.abs() < CHECK_SIGMAS,
                     "{} {which} at {}: {:.4} vs truth {:.4} (z = {z:.1})",
                     names[peaks.len()],
                     k + 1,

@@ -4,6 +4,7 @@
 //! the values; numpy 2.4), and a forecast that is pure sector tilt has no IC
 //! once neutralised.
 
+use lagfold::stats::CHECK_SIGMAS;
 mod common;
 
 use lagfold::measure::Measurement;
@@ -83,7 +84,7 @@ fn a_pure_sector_tilt_has_no_ic_once_neutralised() {
     let (raw, _) = measure(ReadOptions::default());
     assert!(raw > 0.2, "raw IC {raw}");
     let (ic, se) = measure(ReadOptions { group: Some("sector".into()), ..ReadOptions::default() });
-    assert!(ic.abs() < 4.0 * se, "neutralised IC {ic}, se {se}");
+    assert!(ic.abs() < CHECK_SIGMAS * se, "neutralised IC {ic}, se {se}");
 }
 
 #[test]

@@ -2,6 +2,7 @@
 //! Every check uses a fixed seed and a tolerance of four standard errors,
 //! with the standard error stated beside it, so it cannot flake.
 
+use lagfold::stats::CHECK_SIGMAS;
 mod common;
 
 use common::{expected_sample_corr, for_each_path, mean_se, setup};
@@ -31,7 +32,7 @@ fn sign_agreement_follows_sheppard() {
     let want = 0.5 + 0.2f64.asin() / PI;
     let got = agree as f64 / total as f64;
     let se = (want * (1.0 - want) / total as f64).sqrt(); // 2.5e-4 at 4e6 independent pairs
-    assert!((got - want).abs() < 4.0 * se, "got {got}, Sheppard {want}, se {se}");
+    assert!((got - want).abs() < CHECK_SIGMAS * se, "got {got}, Sheppard {want}, se {se}");
 }
 
 #[test]
@@ -45,8 +46,8 @@ fn per_date_ic_noise_matches_fisher_standard_error() {
     let sd = (z.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / (z.len() - 1) as f64).sqrt();
     let want = 1.0 / ((n - 3) as f64).sqrt();
     let se = want / (2.0 * z.len() as f64).sqrt(); // sd of a normal sample sd: σ/sqrt(2m) ≈ 5e-4
-    assert!((sd - want).abs() < 4.0 * se, "sd {sd}, Fisher {want}, se {se}");
-    assert!((sd - 1.0 / (n as f64).sqrt()).abs() > 4.0 * se, "the test can tell n − 3 from n");
+    assert!((sd - want).abs() < CHECK_SIGMAS * se, "sd {sd}, Fisher {want}, se {se}");
+    assert!((sd - 1.0 / (n as f64).sqrt()).abs() > CHECK_SIGMAS * se, "the test can tell n − 3 from n");
 }
 
 #[test]
@@ -64,11 +65,11 @@ fn mean_rank_ic_follows_pearson_and_moran() {
     let nf = n as f64;
     let moran = 6.0 / (PI * (nf + 1.0)) * (rho.asin() + (nf - 2.0) * (rho / 2.0).asin());
     let (m, se) = mean_se(&rank); // se ≈ 6.5e-4 from 19,900 independent dates
-    assert!((m - moran).abs() < 4.0 * se, "rank mean {m}, Moran {moran}, se {se}");
+    assert!((m - moran).abs() < CHECK_SIGMAS * se, "rank mean {m}, Moran {moran}, se {se}");
     assert!((m - rho).abs() > 10.0 * se, "rank IC differs visibly from Pearson's ρ");
     let (m, se) = mean_se(&pearson);
     let want = expected_sample_corr(rho, n);
-    assert!((m - want).abs() < 4.0 * se, "Pearson mean {m}, Fisher-corrected {want}, se {se}");
+    assert!((m - want).abs() < CHECK_SIGMAS * se, "Pearson mean {m}, Fisher-corrected {want}, se {se}");
 }
 
 #[test]
@@ -92,11 +93,11 @@ fn binary_forecast_success_ratio_is_one_plus_ic_over_two() {
         total += t;
     });
     let (ic, se) = mean_se(&ics); // ≈ 1e-3
-    assert!((ic - 0.2).abs() < 4.0 * se, "binary IC {ic}, Sheppard 0.20, se {se}");
+    assert!((ic - 0.2).abs() < CHECK_SIGMAS * se, "binary IC {ic}, Sheppard 0.20, se {se}");
     let success = agree as f64 / total as f64;
     assert!((success - (1.0 + ic) / 2.0).abs() < 2e-3, "success {success} vs (1+IC)/2 = {}", (1.0 + ic) / 2.0);
     // "About 0.60": the success ratio moves by half the IC's error, 2·se at most.
-    assert!((success - 0.60).abs() < 2.0 * 4.0 * se, "about 0.60: {success}");
+    assert!((success - 0.60).abs() < 2.0 * CHECK_SIGMAS * se, "about 0.60: {success}");
 }
 
 #[test]
@@ -136,6 +137,6 @@ fn measured_horizon_ic_follows_the_qhs_relation_for_uncorrelated_returns() {
         let col: Vec<f64> = per_path.iter().map(|v| v[h - 1]).collect();
         let (mean, se) = mean_se(&col); // ≈ 2e-4
         let want = expected_sample_corr(qhs, n);
-        assert!((mean - want).abs() < 4.0 * se, "horizon {h}: measured {mean}, QHS {want}, se {se}");
+        assert!((mean - want).abs() < CHECK_SIGMAS * se, "horizon {h}: measured {mean}, QHS {want}, se {se}");
     }
 }

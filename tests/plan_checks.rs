@@ -1,5 +1,6 @@
 //! History sizing against what must hold in expectation (MODEL.md §6).
 
+use lagfold::stats::CHECK_SIGMAS;
 mod common;
 
 use common::setup;
@@ -47,7 +48,7 @@ fn the_near_hit_rate_rises_with_history() {
     let sxx: f64 = x.iter().zip(&w).map(|(x, w)| w * (x - xm).powi(2)).sum();
     let slope = x.iter().zip(&y).zip(&w).map(|((x, y), w)| w * (x - xm) * (y - ym)).sum::<f64>() / sxx;
     let se = (1.0 / sxx).sqrt();
-    assert!(slope > 4.0 * se, "slope {slope}, se {se}, rates {y:?}");
+    assert!(slope > CHECK_SIGMAS * se, "slope {slope}, se {se}, rates {y:?}");
 }
 
 #[test]
@@ -71,7 +72,7 @@ fn the_plan_agrees_with_a_direct_run_at_its_history() {
         ("fitted hit", (a.fitted.hit_rate, a.fitted.hit_rate_se), (b.fitted.hit_rate, b.fitted.hit_rate_se)),
     ] {
         let se = (x.1.powi(2) + y.1.powi(2)).sqrt();
-        assert!((x.0 - y.0).abs() < 4.0 * se, "{name}: plan {} vs run {}, se {se}", x.0, y.0);
+        assert!((x.0 - y.0).abs() < CHECK_SIGMAS * se, "{name}: plan {} vs run {}, se {se}", x.0, y.0);
     }
 }
 

@@ -109,9 +109,7 @@ pub struct MeasureArgs {
 
 /// `lagfold measure`.
 pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
-    for &c in &a.study.cost_bps {
-        crate::scenario::check_cost_bps("--cost-bps", c).map_err(Failure::input)?;
-    }
+    a.study.costs(super::run::MAX_COST_LEVELS, "`measure`")?;
     if (a.study.paths.is_some() || a.study.threads.is_some()) && a.no_study {
         return Err(Failure::input(
             "--paths and --threads set the calibrated study, which --no-study skips; drop one or the other",

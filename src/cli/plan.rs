@@ -28,6 +28,9 @@ pub struct PlanArgs {
     pub study: StudyArgs,
 }
 
+/// Most history lengths in one plan.
+pub const MAX_HISTORIES: usize = 40;
+
 /// The grid: given lengths, or multiples of the scenario's history.
 fn grid(a: &PlanArgs, history: usize, horizons: usize) -> Result<Vec<usize>, Failure> {
     let mut g: Vec<usize> = if a.histories.is_empty() {
@@ -52,6 +55,15 @@ fn grid(a: &PlanArgs, history: usize, horizons: usize) -> Result<Vec<usize>, Fai
 /// `lagfold plan`.
 pub fn run(a: &PlanArgs) -> Result<(), Failure> {
     let mut scenario = read_scenario(&a.scenario, &a.study.overrides())?;
+    if let [c] = a.study.costs(1, "`plan` (one cost for the net-IR rule)")? {
+        scenario.portfolio.cost_bps = *c;
+    }
+    if a.histories.len() > MAX_HISTORIES {
+        return Err(Failure::input(format!(
+            "option --histories: {} lengths given; at most {MAX_HISTORIES} (each is a study of its own)",
+            a.histories.len()
+        )));
+    }
     let histories = grid(a, scenario.history, scenario.horizons)?;
     let longest = *histories.last().ok_or_else(|| Failure::input("`--histories` is empty"))?;
     if scenario.assets.saturating_mul(longest) > MAX_ASSET_DATES {

@@ -54,7 +54,30 @@ pub struct RunArgs {
     pub study: StudyArgs,
 }
 
+/// Most `--cost-bps` levels in one run (each is a row of the cost table and
+/// a line on the cost chart).
+pub const MAX_COST_LEVELS: usize = 50;
+
 impl StudyArgs {
+    /// The `--cost-bps` values, each checked, at most `most` of them (`what`
+    /// says why a command takes fewer).
+    ///
+    /// # Errors
+    /// A level outside [0, 10000) or too many levels.
+    pub fn costs(&self, most: usize, what: &str) -> Result<&[f64], Failure> {
+        if self.cost_bps.len() > most {
+            return Err(Failure::input(format!(
+                "option --cost-bps: {} levels given; {what} takes at most {most}",
+                self.cost_bps.len()
+            )));
+        }
+        for (i, &c) in self.cost_bps.iter().enumerate() {
+            let key = if self.cost_bps.len() > 1 { format!("--cost-bps value {}", i + 1) } else { "--cost-bps".into() };
+            scenario::check_cost_bps(&key, c).map_err(|e| Failure::input(format!("option {e}")))?;
+        }
+        Ok(&self.cost_bps)
+    }
+
     /// The overrides of the scenario's common knobs.
     pub fn overrides(&self) -> Overrides {
         Overrides {
@@ -106,14 +129,19 @@ fn read_text(path: &Path) -> Result<(String, String, String), Failure> {
         };
         Failure::input(crate::error::InputError::Read { path: path.to_path_buf(), source: e, hint })
     })?;
-    let stem = path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| "scenario".into());
+    let stem = path.file_stem().map_or_else(|| "scenario".into(), |s| scenario::name_from_file(&s.to_string_lossy()));
     Ok((text, path.display().to_string(), stem))
 }
 
 /// `lagfold run`: one scenario, or the grid of a sweep file.
 pub fn run(a: &RunArgs) -> Result<(), Failure> {
     let (text, origin, stem) = read_text(&a.scenario)?;
-    let axes = sweep::axes(&text, &origin).map_err(Failure::input)?;
+    // A file that reads as one scenario is one (a seed above 2^63 − 1 would
+    // not survive the generic TOML table a sweep is read through).
+    let axes = match scenario::parse(&text, &origin) {
+        Ok(_) => Vec::new(),
+        Err(_) => sweep::axes(&text, &origin).map_err(Failure::input)?,
+    };
     if axes.is_empty() {
         let scenario = scenario::load(&text, &origin, &stem, &a.study.overrides()).map_err(Failure::input)?;
         return execute(scenario, &a.study, &origin);
@@ -135,8 +163,8 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
     let mut rows = Vec::with_capacity(points.len());
     for p in points {
         let mut s = p.scenario.clone();
-        if let [one] = a.cost_bps[..] {
-            s.portfolio.cost_bps = scenario::check_cost_bps("--cost-bps", one).map_err(Failure::input)?;
+        if let [one] = a.costs(1, "a sweep (put a list of cost_bps under [portfolio] to sweep costs)")? {
+            s.portfolio.cost_bps = *one;
         }
         let label = p.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
         let setup = Setup::new(s).map_err(|e| Failure::input(format!("{origin} (grid point {label}): {e}")))?;
@@ -171,10 +199,7 @@ pub fn demo(a: &StudyArgs) -> Result<(), Failure> {
 }
 
 fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
-    for (i, &c) in a.cost_bps.iter().enumerate() {
-        scenario::check_cost_bps(&format!("--cost-bps value {}", i + 1), c).map_err(Failure::input)?;
-    }
-    if let [one] = a.cost_bps[..] {
+    if let [one] = a.costs(MAX_COST_LEVELS, "`run`")?[..] {
         scenario.portfolio.cost_bps = one;
     }
     let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(&scenario.name));

@@ -21,8 +21,8 @@ pub struct StressArgs {
 /// `lagfold stress`.
 pub fn run(a: &StressArgs) -> Result<(), Failure> {
     let mut scenario = read_scenario(&a.scenario, &a.study.overrides())?;
-    if let Some(&c) = a.study.cost_bps.first() {
-        scenario.portfolio.cost_bps = crate::scenario::check_cost_bps("--cost-bps", c).map_err(Failure::input)?;
+    if let [c] = a.study.costs(1, "`stress` (one cost for every curve)")? {
+        scenario.portfolio.cost_bps = *c;
     }
     let out_dir =
         a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-stress", scenario.name)));

@@ -74,5 +74,13 @@ mod tests {
         // resample to resample than i.i.d. draws would, hence the loose 0.06.
         let drawn = counts.iter().filter(|&&c| c > 0).count() as f64 / m as f64;
         assert!((drawn - 0.632).abs() < 0.06, "{drawn}");
+        // Runs: a block goes on to the next date with probability 1 − 1/10, so
+        // a drawn date's successor is drawn at least 90 % of the time (about
+        // 0.9 + 0.1·0.632 = 0.96), where i.i.d. draws give 0.632 (binomial se
+        // about 0.006 over 1,264 drawn dates). Catches: i.i.d. resampling, or
+        // blocks that never end (then every date is drawn, and the line above fails).
+        let pairs = (0..m).filter(|&t| counts[t] > 0 && counts[(t + 1) % m] > 0).count() as f64;
+        let next_drawn = pairs / (drawn * m as f64);
+        assert!(next_drawn > 0.9, "P(next date drawn | date drawn) = {next_drawn}");
     }
 }

@@ -191,7 +191,7 @@ mod tests {
             hits += usize::from(interval(&x, 1).unwrap().covers(0.0));
         }
         let rate = hits as f64 / 4000.0;
-        assert!((rate - 0.95).abs() < 4.0 * 0.0034, "{rate}");
+        assert!((rate - 0.95).abs() < crate::stats::CHECK_SIGMAS * 0.0034, "{rate}");
     }
 
     #[test]

@@ -236,19 +236,25 @@ pub fn best_fit(lagged: &[f64], se: &[Option<f64>]) -> Fit {
 mod tests {
     use super::*;
 
-    fn exact(fam: Family, t1: f64, t2: f64) -> Vec<f64> {
-        (1..=24).map(|k| 0.04 * fam.shape(k as f64, t1, t2)).collect()
-    }
-
     #[test]
     fn recovers_noise_free_curves_of_each_family() {
+        // The curves are written out here (presets/README.md's formulas), not
+        // taken from `Family::shape`, so a wrong shape in the fit fails.
+        // Catches: a family missing from the search, a shape off by one lag.
         let se = vec![Some(0.01); 24];
-        for (fam, t1, t2) in [(Family::Exponential, 3.7, 0.0), (Family::Power, 0.8, 0.0), (Family::Hump, 5.0, 2.0)] {
-            let y = exact(fam, t1, t2);
+        let curve = |f: &dyn Fn(f64) -> f64| (1..=24).map(|k| 0.04 * f(k as f64)).collect::<Vec<_>>();
+        let cases: [(Family, Vec<f64>, f64); 4] = [
+            (Family::Exponential, curve(&|k| 2f64.powf(-(k - 1.0) / 3.7)), 3.7),
+            (Family::Power, curve(&|k| k.powf(-0.8)), 0.8),
+            (Family::Linear, curve(&|k| if k < 9.0 { (9.0 - k) / 8.0 } else { 0.0 }), 9.0),
+            (Family::Hump, curve(&|k| (k / 5.0).powi(2) * (2.0 * (1.0 - k / 5.0)).exp()), 5.0),
+        ];
+        for (fam, y, t1) in cases {
             let f = best_fit(&y, &se);
             assert_eq!(f.family, fam);
             assert!(f.chi2 < 1e-6, "{fam:?}: chi2 {}", f.chi2);
             assert!((f.amplitude - 0.04).abs() < 1e-4, "{fam:?}: A {}", f.amplitude);
+            assert!((f.shape1 - t1).abs() < 1e-3 * t1, "{fam:?}: shape {} vs {t1}", f.shape1);
         }
     }
 }

@@ -372,9 +372,12 @@ mod tests {
 
     #[test]
     fn the_missing_value_path_agrees_with_the_dense_one_and_skips_what_is_missing() {
+        // Catches: the masked sums dropping or double-counting a pair when
+        // nothing is missing, and the rank-free dense path disagreeing with the
+        // ranked one on the Pearson ICs.
         let p = toy_panel();
-        let mut dense = Measurement::new(3, false);
-        dense.update(&p);
+        let mut plain = Measurement::new(3, false);
+        plain.update(&p);
         let mut dense = Measurement::new(3, true);
         dense.update(&p);
         let mut flagged = p.clone();
@@ -388,6 +391,8 @@ mod tests {
             for (a, b) in dense.lagged.series(k).iter().zip(masked.lagged.series(k)) {
                 assert!((a - b).abs() < 1e-12);
             }
+            assert_eq!(plain.lagged.series(k), dense.lagged.series(k), "lag {k}: ranks change no Pearson IC");
+            assert_eq!(plain.horizon.series(k), dense.horizon.series(k));
             for (a, b) in dense.horizon.series(k).iter().zip(masked.horizon.series(k)) {
                 assert!((a - b).abs() < 1e-12);
             }

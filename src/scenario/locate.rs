@@ -1,31 +1,77 @@
 //! Finds the line of a key in a TOML text, so that a value error (which serde
 //! cannot see) still points at the line to edit.
 
-/// 1-based line of `key_path` (`"assets"`, `"decay.half_life"`, `"decay.values[2]"`).
+use std::collections::HashMap;
+
+/// 1-based line of `key_path` (`"assets"`, `"decay.half_life"`,
+/// `"decay.values[2]"`, `"stress.alternatives[1].decay.ic1"`): the key's own
+/// line, else the line of the closest table or inline table that holds it (a
+/// missing key is reported at its table).
 pub fn line_of(text: &str, key_path: &str) -> Option<usize> {
-    let path = key_path.split('[').next().unwrap_or(key_path);
-    let (table, key) = match path.rsplit_once('.') {
-        Some((t, k)) => (t, k),
-        None => ("", path),
+    // An index on the last part names an element of a list value.
+    let target = match key_path.rsplit_once('.') {
+        Some((head, last)) => format!("{head}.{}", last.split('[').next().unwrap_or(last)),
+        None => key_path.split('[').next().unwrap_or(key_path).to_string(),
+    };
+    let mut best: Option<(usize, usize)> = None; // (length of the matched path, line)
+    let mut consider = |path: &str, line: usize| -> bool {
+        if path == target {
+            return true;
+        }
+        if target.starts_with(path)
+            && target.as_bytes().get(path.len()) == Some(&b'.')
+            && best.is_none_or(|(len, _)| path.len() > len)
+        {
+            best = Some((path.len(), line));
+        }
+        false
     };
     let mut current = String::new();
-    for (i, line) in text.lines().enumerate() {
-        let t = line.trim();
-        if let Some(h) = t.strip_prefix('[').and_then(|h| h.split(']').next()) {
-            current = h.trim().to_string();
+    let mut arrays: HashMap<String, usize> = HashMap::new();
+    for (i, raw) in text.lines().enumerate() {
+        let t = raw.split('#').next().unwrap_or("").trim();
+        if let Some(h) = t.strip_prefix("[[") {
+            let name = clean(h.split("]]").next().unwrap_or(""));
+            let n = arrays.entry(name.clone()).or_insert(0);
+            current = format!("{name}[{n}]");
+            *n += 1;
+            if consider(&current, i + 1) {
+                return Some(i + 1);
+            }
             continue;
         }
-        let Some((k, _)) = t.split_once('=') else { continue };
-        let k = k.trim().trim_matches('"');
-        if k == key && current == table {
+        if let Some(h) = t.strip_prefix('[') {
+            current = clean(h.split(']').next().unwrap_or(""));
+            if consider(&current, i + 1) {
+                return Some(i + 1);
+            }
+            continue;
+        }
+        let Some((k, v)) = t.split_once('=') else { continue };
+        let full = join(&current, &clean(k));
+        if consider(&full, i + 1) {
             return Some(i + 1);
         }
-        // dotted keys at top level: `decay.half_life = 3`
-        if current.is_empty() && !table.is_empty() && k == path {
-            return Some(i + 1);
+        if let Some(inner) = v.trim_start().strip_prefix('{') {
+            for part in inner.split(',') {
+                if let Some((ik, _)) = part.split_once('=')
+                    && consider(&join(&full, &clean(ik)), i + 1)
+                {
+                    return Some(i + 1);
+                }
+            }
         }
     }
-    None
+    best.map(|(_, line)| line)
+}
+
+/// A key or header as a dotted path without quotes or spaces.
+fn clean(k: &str) -> String {
+    k.split('.').map(|p| p.trim().trim_matches('"').trim_matches('\'')).collect::<Vec<_>>().join(".")
+}
+
+fn join(table: &str, key: &str) -> String {
+    if table.is_empty() { key.to_string() } else { format!("{table}.{key}") }
 }
 
 #[cfg(test)]
@@ -40,5 +86,17 @@ mod tests {
         assert_eq!(line_of(t, "tails.family"), Some(7));
         assert_eq!(line_of(t, "history"), None);
         assert_eq!(line_of("decay.values = [1]", "decay.values[0]"), Some(1));
+    }
+
+    #[test]
+    fn a_missing_key_points_at_its_table_and_alternatives_are_counted() {
+        let t = "[decay]\nfamily = \"exponential\"\n[[stress.alternatives]]\nname = \"a\"\n\
+                 decay = { family = \"step\", ic = 2 }\n[[stress.alternatives]]\nname = \"b\"\n\
+                 decay = { family = \"step\", ic = 0.1, length = 0 }\n";
+        assert_eq!(line_of(t, "decay.half_life"), Some(1));
+        assert_eq!(line_of(t, "stress.alternatives[0].decay.ic"), Some(5));
+        assert_eq!(line_of(t, "stress.alternatives[1].decay.length"), Some(8));
+        assert_eq!(line_of(t, "stress.alternatives[1].name"), Some(7));
+        assert_eq!(line_of(t, "stress.alternatives[1].decay.half_life"), Some(8));
     }
 }

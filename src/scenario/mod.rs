@@ -1,12 +1,14 @@
 //! Stage 0: the scenario. Two layers: [`RawScenario`] only parses the TOML;
 //! [`Scenario`] is the validated form, the only one the engine sees.
 
+mod explain;
 mod locate;
 pub mod presets;
 mod raw;
+mod spelling;
 pub mod sweep;
 
-pub use raw::{RawAlternative, RawPortfolio, RawScenario, RawStress, RawTails};
+pub use raw::{DECAY_FAMILIES, RawAlternative, RawDecay, RawPortfolio, RawScenario, RawStress, RawTails};
 
 use crate::decay::{DecayCurve, out_of_range};
 use crate::error::{InputError, ScenarioError};
@@ -16,6 +18,20 @@ use serde::Serialize;
 pub const MAX_ASSET_DATES: usize = 50_000_000;
 /// Largest `paths × horizons` (the study keeps two curves and the book sums, 64 bytes per path and horizon).
 pub const MAX_PATH_HORIZONS: usize = 20_000_000;
+
+/// Names of the stress curves lagfold adds itself: the scenario's own curve,
+/// then the default alternatives (see `stress::default_alternatives`).
+pub const RESERVED_NAMES: [&str; 5] = ["assumed", "faster", "slower", "hump", "reversal"];
+/// Most alternative curves a scenario may give (each is a study of its own
+/// and a line on every stress chart).
+pub const MAX_ALTERNATIVES: usize = 24;
+
+/// Largest `portfolio.reference_paths`.
+pub const MAX_REFERENCE_PATHS: usize = 100_000;
+/// Largest residual volatility per period (returns are decimals).
+pub const MAX_RESIDUAL_VOL: f64 = 10.0;
+/// Largest `periods_per_year`.
+pub const MAX_PERIODS_PER_YEAR: f64 = 1_000_000.0;
 
 /// Idiosyncratic noise law (validated).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
@@ -148,6 +164,33 @@ impl Overrides {
     }
 }
 
+/// Checks a scenario name given in the file: it names the output folder.
+fn check_name(name: &str) -> Result<String, ScenarioError> {
+    let ok = !name.is_empty()
+        && !name.starts_with('.')
+        && name.len() <= 100
+        && name.chars().all(|c| c.is_ascii_alphanumeric() || "-_.".contains(c));
+    if ok {
+        Ok(name.to_string())
+    } else {
+        Err(out_of_range(
+            "name",
+            format!("{name:?}"),
+            "1 to 100 letters, digits, '-', '_' or '.', not starting with '.' (it names the output folder)",
+        ))
+    }
+}
+
+/// The name of a scenario whose file sets none: the file name with every
+/// character outside the name rule turned into '-' (`my signal.toml` →
+/// `my-signal`) and leading dots dropped.
+pub fn name_from_file(stem: &str) -> String {
+    let mut name: String =
+        stem.chars().map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '-' }).take(100).collect();
+    name = name.trim_start_matches('.').to_string();
+    if name.is_empty() { "scenario".into() } else { name }
+}
+
 fn open_unit(key: &str, v: f64) -> Result<f64, ScenarioError> {
     if v.is_finite() && v > -1.0 && v < 1.0 { Ok(v) } else { Err(out_of_range(key, v, "inside (-1, 1)")) }
 }
@@ -162,13 +205,10 @@ impl Scenario {
     /// # Errors
     /// The first field outside its range, with its key path and value.
     pub fn from_raw(raw: &RawScenario, default_name: &str) -> Result<Self, ScenarioError> {
-        let name = raw.name.clone().unwrap_or_else(|| default_name.to_string());
-        if name.is_empty()
-            || !name.chars().all(|c| c.is_ascii_alphanumeric() || "-_.".contains(c))
-            || name.starts_with('.')
-        {
-            return Err(out_of_range("name", format!("{name:?}"), "letters, digits, '-', '_' or '.'"));
-        }
+        let name = match &raw.name {
+            Some(n) => check_name(n)?,
+            None => name_from_file(default_name),
+        };
         if raw.assets < 10 {
             return Err(out_of_range("assets", raw.assets, "at least 10"));
         }
@@ -198,15 +238,29 @@ impl Scenario {
             ));
         }
         let periods_per_year = positive("periods_per_year", raw.periods_per_year)?;
+        if periods_per_year > MAX_PERIODS_PER_YEAR {
+            return Err(out_of_range(
+                "periods_per_year",
+                periods_per_year,
+                &format!("at most {MAX_PERIODS_PER_YEAR} (one period a minute of a trading year is about 98,000)"),
+            ));
+        }
         let residual_vol = positive("residual_vol", raw.residual_vol)?;
+        if residual_vol > MAX_RESIDUAL_VOL {
+            return Err(out_of_range(
+                "residual_vol",
+                residual_vol,
+                &format!("at most {MAX_RESIDUAL_VOL} (a decimal: 0.06 is 6 % per period)"),
+            ));
+        }
         let rho = open_unit("forecast_autocorrelation", raw.forecast_autocorrelation)?;
         if !(raw.ic_vol.is_finite() && (0.0..1.0).contains(&raw.ic_vol)) {
             return Err(out_of_range("ic_vol", raw.ic_vol, "in [0, 1)"));
         }
         let ic_vol_persistence = open_unit("ic_vol_persistence", raw.ic_vol_persistence)?;
-        let tails = match raw.tails {
-            RawTails::Normal => Tails::Normal,
-            RawTails::StudentT { dof } => {
+        let tails = match raw.tails.dof()? {
+            None => Tails::Normal,
+            Some(dof) => {
                 if !(dof.is_finite() && dof > 2.0) {
                     return Err(out_of_range("tails.dof", dof, "> 2 (finite variance)"));
                 }
@@ -219,7 +273,7 @@ impl Scenario {
         if !(raw.near_best_tolerance.is_finite() && (0.0..1.0).contains(&raw.near_best_tolerance)) {
             return Err(out_of_range("near_best_tolerance", raw.near_best_tolerance, "in [0, 1)"));
         }
-        let decay = DecayCurve::new(raw.decay.clone())?;
+        let decay = DecayCurve::new(raw.decay.shape("decay")?)?;
         let p = &raw.portfolio;
         let portfolio = PortfolioSpec {
             cost_bps: check_cost_bps("portfolio.cost_bps", p.cost_bps)?,
@@ -236,10 +290,14 @@ impl Scenario {
                     ),
                 ));
             },
-            reference_paths: if p.reference_paths >= 10 {
+            reference_paths: if (10..=MAX_REFERENCE_PATHS).contains(&p.reference_paths) {
                 p.reference_paths
             } else {
-                return Err(out_of_range("portfolio.reference_paths", p.reference_paths, "at least 10"));
+                return Err(out_of_range(
+                    "portfolio.reference_paths",
+                    p.reference_paths,
+                    &format!("from 10 to {MAX_REFERENCE_PATHS} (each is one more simulated history with its books)"),
+                ));
             },
         };
         let mut alternatives = Vec::with_capacity(raw.stress.alternatives.len());
@@ -248,12 +306,23 @@ impl Scenario {
             if a.name.trim().is_empty() {
                 return Err(out_of_range(&format!("{prefix}.name"), "\"\"", "a non-empty name"));
             }
-            let curve = DecayCurve::new(a.decay.clone()).map_err(|e| match e {
-                ScenarioError::OutOfRange { key, value, allowed } => {
-                    ScenarioError::OutOfRange { key: format!("{prefix}.{key}"), value, allowed }
-                }
-                other => other,
-            })?;
+            let taken = alternatives.iter().any(|(n, _): &(String, DecayCurve)| n.trim() == a.name.trim())
+                || (!raw.stress.replace_defaults && RESERVED_NAMES.contains(&a.name.trim()));
+            if taken {
+                return Err(out_of_range(
+                    &format!("{prefix}.name"),
+                    format!("{:?}", a.name),
+                    "a name not used by another alternative, nor `assumed`, nor a default one (faster, slower, hump, reversal) unless replace_defaults = true",
+                ));
+            }
+            if i >= MAX_ALTERNATIVES {
+                return Err(out_of_range(
+                    "stress.alternatives",
+                    format!("{} alternatives", raw.stress.alternatives.len()),
+                    &format!("at most {MAX_ALTERNATIVES} (each adds a study and a column to every chart)"),
+                ));
+            }
+            let curve = a.decay.shape("decay").and_then(DecayCurve::new).map_err(|e| e.under(&prefix))?;
             alternatives.push((a.name.clone(), curve));
         }
         let truncation = match raw.truncation {
@@ -292,8 +361,7 @@ impl Scenario {
 /// # Errors
 /// [`InputError::Parse`] with the parser's line and column.
 pub fn parse(text: &str, origin: &str) -> Result<RawScenario, InputError> {
-    toml::from_str(text)
-        .map_err(|e| InputError::Parse { origin: origin.to_string(), message: e.to_string().trim_end().to_string() })
+    toml::from_str(text).map_err(|e| explain::explain(&e, text, origin))
 }
 
 /// Parses, applies overrides and validates; a value error carries its line.
@@ -306,16 +374,19 @@ pub fn load(text: &str, origin: &str, default_name: &str, ov: &Overrides) -> Res
     Scenario::from_raw(&raw, default_name).map_err(|e| {
         // A value given on the command line is blamed on its option, not on the file's line.
         let given = ov.given();
-        if let ScenarioError::OutOfRange { key, .. } = &e
+        if let Some(key) = e.key()
             && let Some((flag, _)) = given.iter().find(|(flag, _)| flag[2..] == *key)
         {
             return InputError::Invalid { origin: format!("option {flag}"), line: None, source: e };
         }
+        // A rule between fields names the options that moved one of them.
+        let said = e.to_string();
+        let involved: Vec<_> = given.iter().filter(|(flag, _)| said.contains(&flag[2..])).collect();
         let mut err = locate(e, text, origin);
         if let InputError::Invalid { origin, .. } = &mut err
-            && !given.is_empty()
+            && !involved.is_empty()
         {
-            let with: Vec<String> = given.iter().map(|(f, v)| format!("{f} {v}")).collect();
+            let with: Vec<String> = involved.iter().map(|(f, v)| format!("{f} {v}")).collect();
             origin.push_str(&format!(" (with {} from the command line)", with.join(", ")));
         }
         err
@@ -324,9 +395,6 @@ pub fn load(text: &str, origin: &str, default_name: &str, ov: &Overrides) -> Res
 
 /// Wraps a value error with the line of its key in `text`.
 pub fn locate(source: ScenarioError, text: &str, origin: &str) -> InputError {
-    let line = match &source {
-        ScenarioError::OutOfRange { key, .. } => locate::line_of(text, key),
-        _ => None,
-    };
+    let line = source.key().and_then(|key| locate::line_of(text, key));
     InputError::Invalid { origin: origin.to_string(), line, source }
 }

@@ -34,31 +34,9 @@ pub fn known_words(name: &str) -> String {
     }
 }
 
-/// The preset within three edits of `name` (Levenshtein, 1966), or whose
-/// name starts with it.
+/// The preset within three edits of `name`, or whose name starts with it.
 pub fn closest(name: &str) -> Option<&'static str> {
-    let lower = name.to_ascii_lowercase();
-    ALL.iter()
-        .map(|(n, _)| (*n, if n.starts_with(&lower) && !lower.is_empty() { 0 } else { edits(&lower, n) }))
-        .filter(|(_, d)| *d <= 3)
-        .min_by_key(|(_, d)| *d)
-        .map(|(n, _)| n)
-}
-
-/// Levenshtein distance between two strings (by characters).
-fn edits(a: &str, b: &str) -> usize {
-    let b: Vec<char> = b.chars().collect();
-    let mut row: Vec<usize> = (0..=b.len()).collect();
-    for (i, ca) in a.chars().enumerate() {
-        let mut prev = row[0];
-        row[0] = i + 1;
-        for j in 0..b.len() {
-            let cur = row[j + 1];
-            row[j + 1] = (prev + usize::from(ca != b[j])).min(row[j] + 1).min(cur + 1);
-            prev = cur;
-        }
-    }
-    row[b.len()]
+    super::spelling::nearest(name, ALL.iter().map(|(n, _)| *n))
 }
 
 #[cfg(test)]
@@ -71,6 +49,5 @@ mod tests {
         assert_eq!(closest("weekly-rev"), Some("weekly-reversal"));
         assert_eq!(closest("Daily-Slow-Burn"), Some("daily-slow-burn"));
         assert_eq!(closest("my-signal.toml"), None);
-        assert_eq!(edits("kitten", "sitting"), 3);
     }
 }

@@ -39,8 +39,7 @@ fn is_number(v: &toml::Value) -> bool {
 /// # Errors
 /// A syntax error with its line.
 pub fn axes(text: &str, origin: &str) -> Result<Vec<Axis>, InputError> {
-    let table: toml::Table =
-        toml::from_str(text).map_err(|e| InputError::Parse { origin: origin.to_string(), message: e.to_string() })?;
+    let table: toml::Table = toml::from_str(text).map_err(|e| super::explain::explain(&e, text, origin))?;
     let mut out = Vec::new();
     let mut visit = |prefix: &str, t: &toml::Table| {
         for (k, v) in t {
@@ -78,11 +77,11 @@ pub fn expand(
     if n > MAX_POINTS {
         return Err(InputError::Parse {
             origin: origin.to_string(),
+            line: None,
             message: format!("the sweep has {n} grid points; at most {MAX_POINTS} are allowed"),
         });
     }
-    let base: toml::Table =
-        toml::from_str(text).map_err(|e| InputError::Parse { origin: origin.into(), message: e.to_string() })?;
+    let base: toml::Table = toml::from_str(text).map_err(|e| super::explain::explain(&e, text, origin))?;
     let mut points = Vec::with_capacity(n);
     for i in 0..n {
         let mut t = base.clone();
@@ -109,9 +108,8 @@ pub fn expand(
         }
         let label = at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
         let here = format!("{origin} (grid point {label})");
-        let mut raw: RawScenario = toml::Value::Table(t)
-            .try_into()
-            .map_err(|e: toml::de::Error| InputError::Parse { origin: here.clone(), message: e.to_string() })?;
+        let mut raw: RawScenario =
+            toml::Value::Table(t).try_into().map_err(|e: toml::de::Error| super::explain::explain(&e, "", &here))?;
         ov.apply(&mut raw);
         let scenario = Scenario::from_raw(&raw, default_name).map_err(|e| super::locate(e, text, &here))?;
         points.push(Point { at, scenario });

@@ -25,6 +25,24 @@ pub fn for_each_path(setup: &Setup, mut each: impl FnMut(&Panel, &Measurement)) 
     }
 }
 
+/// Per path, in parallel (each path's stream depends only on its index):
+/// (mean lagged IC per lag, lagged IC on the first date, mean horizon IC per horizon).
+pub fn per_path_means(s: &Setup) -> Vec<(Vec<f64>, Vec<f64>, Vec<f64>)> {
+    use rayon::prelude::*;
+    (0..s.scenario.paths)
+        .into_par_iter()
+        .map_init(
+            || (Workspace::default(), Measurement::new(s.scenario.horizons, false)),
+            |(ws, m), p| {
+                s.generator.simulate(&mut path_rng(s.scenario.seed, p as u64), ws);
+                m.update(&ws.panel);
+                let first = (1..=s.scenario.horizons).map(|k| m.lagged.series(k)[0]).collect();
+                (m.lagged.means(), first, m.horizon.means())
+            },
+        )
+        .collect()
+}
+
 /// Expected sample correlation of `n` bivariate-normal pairs with correlation
 /// `rho`: `ρ·(1 − (1 − ρ²)/(2n))` to order `1/n` (Fisher, 1915).
 pub fn expected_sample_corr(rho: f64, n: usize) -> f64 {
