@@ -380,6 +380,28 @@ pub fn parse_date(s: &str) -> Option<(i64, &str)> {
 /// # Errors
 /// Every [`ReadError`], naming the file and line.
 pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadError> {
+    check_roles(path, opts)?;
+    let src = crate::rows::Rows::open(path)
+        .map_err(|e| ReadError::Io { path: path.to_path_buf(), message: e.to_string() })?;
+    // Messages name standard input in words.
+    let path = if path == Path::new("-") { Path::new("standard input") } else { path };
+    read_rows(path, src, opts)
+}
+
+/// Reads a panel held in memory (CSV text or a Parquet file's bytes); `name`
+/// names it in messages.
+///
+/// # Errors
+/// Every [`ReadError`], naming `name` and the line.
+pub fn read_panel_bytes(name: &Path, bytes: Vec<u8>, opts: &ReadOptions) -> Result<ReadPanel, ReadError> {
+    check_roles(name, opts)?;
+    let src = crate::rows::Rows::from_bytes(bytes)
+        .map_err(|e| ReadError::Io { path: name.to_path_buf(), message: e.to_string() })?;
+    read_rows(name, src, opts)
+}
+
+/// One column may play one role only.
+fn check_roles(path: &Path, opts: &ReadOptions) -> Result<(), ReadError> {
     let mut roles = vec![(&opts.date, "date"), (&opts.asset, "asset")];
     roles.extend(opts.forecasts.iter().map(|f| (f, "forecast")));
     roles.push((&opts.ret, "return"));
@@ -395,10 +417,11 @@ pub fn read_panel(path: &Path, opts: &ReadOptions) -> Result<ReadPanel, ReadErro
             });
         }
     }
-    let mut src = crate::rows::Rows::open(path)
-        .map_err(|e| ReadError::Io { path: path.to_path_buf(), message: e.to_string() })?;
-    // Messages name standard input in words.
-    let path = if path == Path::new("-") { Path::new("standard input") } else { path };
+    Ok(())
+}
+
+/// The checks and the assembly of a panel, from rows of any source.
+fn read_rows(path: &Path, mut src: crate::rows::Rows, opts: &ReadOptions) -> Result<ReadPanel, ReadError> {
     let io = |e: &dyn std::fmt::Display| ReadError::Io { path: path.to_path_buf(), message: e.to_string() };
     let header = src.header().to_vec();
     let parquet = src.is_parquet();

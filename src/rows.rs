@@ -18,7 +18,56 @@ pub enum Rows {
     /// A CSV file (or standard input) with a header line.
     Csv(Box<csv::Reader<Box<dyn Read>>>, Vec<String>),
     /// An Apache Parquet file; the counter is the rows read.
-    Parquet(Box<RowIter<'static>>, Vec<String>, u64),
+    Parquet(Box<RowIter<'static>>, Vec<String>, u64, QuietPanics),
+}
+
+type Hook = Box<dyn Fn(&std::panic::PanicHookInfo<'_>) + Sync + Send + 'static>;
+
+/// While a Parquet file is read: the Parquet reader asserts (panics) on some
+/// malformed files instead of returning an error (found by fuzzing), so its
+/// calls run under `catch_unwind` with a silent panic hook, which this guard
+/// puts back as it was when the rows are dropped.
+pub struct QuietPanics(Option<Hook>);
+
+impl QuietPanics {
+    fn new() -> Self {
+        let previous = std::panic::take_hook();
+        std::panic::set_hook(Box::new(|_| {}));
+        Self(Some(previous))
+    }
+}
+
+impl Drop for QuietPanics {
+    fn drop(&mut self) {
+        if let Some(h) = self.0.take() {
+            std::panic::set_hook(h);
+        }
+    }
+}
+
+/// A call into the Parquet reader, with its panic turned into an error.
+fn guarded<T>(f: impl FnOnce() -> Result<T, String>) -> Result<T, String> {
+    std::panic::catch_unwind(std::panic::AssertUnwindSafe(f)).unwrap_or_else(|p| {
+        let why = p
+            .downcast_ref::<String>()
+            .map(String::as_str)
+            .or_else(|| p.downcast_ref::<&str>().copied())
+            .unwrap_or("no reason given");
+        Err(format!("not a readable Parquet file (its reader stopped: {why})"))
+    })
+}
+
+/// Opens a Parquet file's rows under the guard.
+fn parquet_rows<R: parquet::file::reader::ChunkReader + 'static>(source: R) -> Result<Rows, String> {
+    let quiet = QuietPanics::new();
+    let (iter, header) = guarded(|| {
+        let reader = SerializedFileReader::new(source).map_err(|e| format!("not a readable Parquet file: {e}"))?;
+        let header: Vec<String> =
+            reader.metadata().file_metadata().schema().get_fields().iter().map(|f| f.name().to_string()).collect();
+        let boxed: Box<dyn FileReader> = Box::new(reader);
+        Ok((RowIter::from_file_into(boxed), header))
+    })?;
+    Ok(Rows::Parquet(Box::new(iter), header, 0, quiet))
 }
 
 /// Whether the file starts with Parquet's magic bytes.
@@ -73,13 +122,7 @@ impl Rows {
             return Self::stdin();
         }
         if is_parquet_file(path).map_err(|e| e.to_string())? {
-            let file = std::fs::File::open(path).map_err(|e| e.to_string())?;
-            let reader = SerializedFileReader::new(file).map_err(|e| format!("not a readable Parquet file: {e}"))?;
-            let header =
-                reader.metadata().file_metadata().schema().get_fields().iter().map(|f| f.name().to_string()).collect();
-            let boxed: Box<dyn FileReader> = Box::new(reader);
-            let iter = RowIter::from_file_into(boxed);
-            return Ok(Rows::Parquet(Box::new(iter), header, 0));
+            return parquet_rows(std::fs::File::open(path).map_err(|e| e.to_string())?);
         }
         let file = std::fs::File::open(path).map_err(|e| e.to_string())?;
         Self::csv(Box::new(file))
@@ -102,21 +145,24 @@ impl Rows {
         }
         let mut bytes = Vec::new();
         input.read_to_end(&mut bytes).map_err(|e| e.to_string())?;
-        let reader = SerializedFileReader::new(bytes::Bytes::from(bytes))
-            .map_err(|e| format!("not a readable Parquet file: {e}"))?;
-        Ok(Self::parquet(Box::new(reader)))
+        Self::from_bytes(bytes)
     }
 
-    fn parquet(reader: Box<dyn FileReader>) -> Self {
-        let header =
-            reader.metadata().file_metadata().schema().get_fields().iter().map(|f| f.name().to_string()).collect();
-        Rows::Parquet(Box::new(RowIter::from_file_into(reader)), header, 0)
+    /// Rows held in memory: Parquet when they start with its magic bytes, else CSV.
+    ///
+    /// # Errors
+    /// What the format's reader said.
+    pub fn from_bytes(bytes: Vec<u8>) -> Result<Self, String> {
+        if bytes.starts_with(b"PAR1") {
+            return parquet_rows(bytes::Bytes::from(bytes));
+        }
+        Self::csv(Box::new(std::io::Cursor::new(bytes)))
     }
 
     /// The column names.
     pub fn header(&self) -> &[String] {
         match self {
-            Rows::Csv(_, h) | Rows::Parquet(_, h, _) => h,
+            Rows::Csv(_, h) | Rows::Parquet(_, h, ..) => h,
         }
     }
 
@@ -136,7 +182,7 @@ impl Rows {
                 let more = rdr.read_record(record).map_err(|e| e.to_string())?;
                 Ok(more.then(|| record.position().map_or(0, |p| p.line())))
             }
-            Rows::Parquet(iter, _, n) => match iter.next() {
+            Rows::Parquet(iter, _, n, _) => match guarded(|| Ok(iter.next()))? {
                 None => Ok(None),
                 Some(row) => {
                     let row = row.map_err(|e| e.to_string())?;

@@ -80,3 +80,19 @@ fn parquet_errors_name_the_row_and_the_schema() {
     let err = run(&["--forecast-column", "score"]);
     assert!(err.contains("schema: no column `score`") && err.contains("the header has: date, asset"), "{err}");
 }
+
+#[test]
+fn a_malformed_parquet_file_that_trips_the_reader_is_refused_not_a_panic() {
+    // Found by fuzzing (`fuzz/`): the `parquet` crate panics on an assertion
+    // in this file's metadata; the reader turns that into exit code 2.
+    let tmp = tempfile::tempdir().unwrap();
+    let a = Command::cargo_bin("lagfold")
+        .unwrap()
+        .args(["measure", "tests/fixtures/malformed.parquet", "--no-study", "-q", "--out"])
+        .arg(tmp.path().join("o"))
+        .assert()
+        .code(2);
+    let err = String::from_utf8_lossy(&a.get_output().stderr).to_string();
+    assert!(err.contains("malformed.parquet") && err.contains("not a readable Parquet file"), "{err}");
+    assert!(!err.contains("panicked"), "{err}");
+}

@@ -93,6 +93,8 @@ impl StudyArgs {
 /// The portfolio truth's reference simulation, then the study, each with its
 /// progress bar.
 pub fn truth_and_study(setup: &Setup, a: &StudyArgs, sweep: &[f64]) -> (PortfolioTruth, study::StudyResult) {
+    let s = &setup.scenario;
+    progress::warn_long(s.paths + s.portfolio.reference_paths, s.assets, s.history, threads(a), a.quiet);
     let (threads, s) = (threads(a), &setup.scenario);
     let bar = progress::bar(s.portfolio.reference_paths, a.quiet, "reference");
     let portfolio = PortfolioTruth::compute(setup, threads, &|done| bar.set_position(done as u64));
@@ -158,6 +160,18 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let threads = threads(a);
     let total: usize = points.iter().map(|p| p.scenario.paths).sum();
+    let asset_dates: f64 = points
+        .iter()
+        .map(|p| {
+            let s = &p.scenario;
+            (s.paths + s.portfolio.reference_paths) as f64 * s.assets as f64 * s.history as f64
+        })
+        .sum();
+    if let Some(note) = progress::long_work(asset_dates, &format!("{} grid points", points.len()), threads)
+        && !a.quiet
+    {
+        eprintln!("{note}");
+    }
     let bar = progress::bar(total, a.quiet, "sweep");
     let mut done = 0;
     let mut rows = Vec::with_capacity(points.len());

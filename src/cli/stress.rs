@@ -35,6 +35,13 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
             a.scenario.display()
         )));
     }
+    progress::warn_long(
+        n_curves * scenario.portfolio.reference_paths,
+        scenario.assets,
+        scenario.history,
+        threads(&a.study),
+        a.study.quiet,
+    );
     let bar = progress::bar(n_curves, a.study.quiet, "curves");
     let origin = a.scenario.display().to_string();
     let result = stress::run(&scenario, threads(&a.study), &|d| bar.set_position(d as u64))
