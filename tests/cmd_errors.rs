@@ -248,3 +248,30 @@ fn counts_and_seeds_that_are_not_whole_numbers_are_refused_in_plain_words() {
         .assert()
         .success();
 }
+
+#[test]
+fn implausible_values_warn_before_the_work_and_the_run_goes_on() {
+    // ic1 = 0.45 (likely 0.045), residual_vol = 6 (likely 0.06): both allowed,
+    // both implausible; `panel` is the quickest command that reads a scenario.
+    let tmp = tempfile::tempdir().unwrap();
+    let file = tmp.path().join("typo.toml");
+    std::fs::write(&file, "residual_vol = 6\n[decay]\nfamily = \"exponential\"\nic1 = 0.45\nhalf_life = 4\n").unwrap();
+    let a = Command::cargo_bin("lagfold")
+        .unwrap()
+        .arg("panel")
+        .arg(&file)
+        .args(["--assets", "40", "--history", "30", "--out", "-"])
+        .assert()
+        .success();
+    let err = String::from_utf8_lossy(&a.get_output().stderr).to_string();
+    has(
+        &err,
+        &[
+            "warning: ",
+            "typo.toml",
+            "IC of 0.450 at lag 1",
+            "0.045 written as 0.45",
+            "residual_vol 6 is 600.0 % per period",
+        ],
+    );
+}

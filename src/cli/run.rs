@@ -74,6 +74,12 @@ impl StudyArgs {
         for (i, &c) in self.cost_bps.iter().enumerate() {
             let key = if self.cost_bps.len() > 1 { format!("--cost-bps value {}", i + 1) } else { "--cost-bps".into() };
             scenario::check_cost_bps(&key, c).map_err(|e| Failure::input(format!("option {e}")))?;
+            if c > 200.0 && !self.quiet {
+                eprintln!(
+                    "warning: option {key}: {c} bps is a one-way cost of {:.1} %; costs are usually a few to a few tens of basis points",
+                    c / 100.0
+                );
+            }
         }
         Ok(&self.cost_bps)
     }
@@ -113,7 +119,16 @@ pub fn threads(a: &StudyArgs) -> usize {
 /// Reads a scenario from a file, or from a preset when no such file exists.
 pub fn read_scenario(path: &Path, ov: &Overrides) -> Result<Scenario, Failure> {
     let (text, origin, stem) = read_text(path)?;
-    scenario::load(&text, &origin, &stem, ov).map_err(Failure::input)
+    let s = scenario::load(&text, &origin, &stem, ov).map_err(Failure::input)?;
+    warn_implausible(&s, &origin);
+    Ok(s)
+}
+
+/// Prints the scenario's implausible values as warnings on stderr.
+pub fn warn_implausible(s: &Scenario, origin: &str) {
+    for w in s.implausible() {
+        eprintln!("warning: {origin}: {w}");
+    }
 }
 
 /// The text of a scenario file (or preset), its origin for messages and its default name.
@@ -146,9 +161,19 @@ pub fn run(a: &RunArgs) -> Result<(), Failure> {
     };
     if axes.is_empty() {
         let scenario = scenario::load(&text, &origin, &stem, &a.study.overrides()).map_err(Failure::input)?;
+        warn_implausible(&scenario, &origin);
         return execute(scenario, &a.study, &origin);
     }
     let points = sweep::expand(&text, &origin, &stem, &a.study.overrides(), &axes).map_err(Failure::input)?;
+    let mut said = Vec::new();
+    for p in &points {
+        for w in p.scenario.implausible() {
+            if !said.contains(&w) {
+                eprintln!("warning: {origin}: {w}");
+                said.push(w);
+            }
+        }
+    }
     run_sweep(&points, &a.study, &origin)
 }
 

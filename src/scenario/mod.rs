@@ -356,6 +356,56 @@ impl Scenario {
     }
 }
 
+impl Scenario {
+    /// Values that are allowed but implausible, in words (printed as
+    /// warnings before any work). The thresholds are common practice with no
+    /// published source: per-date ICs of cross-sectional equity signals are
+    /// a few hundredths, above 0.2 rare; residual volatility is a few per cent
+    /// a month; one-way costs are a few to a few tens of basis points.
+    pub fn implausible(&self) -> Vec<String> {
+        let mut out = Vec::new();
+        let lags = self.truncation.min(1000);
+        if let Some((k, ic)) = (1..=lags).map(|k| (k, self.decay.ic(k))).max_by(|a, b| a.1.abs().total_cmp(&b.1.abs()))
+            && ic.abs() > 0.2
+        {
+            out.push(format!(
+                "the decay curve reaches an IC of {ic:.3} at lag {k}; per-date ICs above 0.2 are rare for \
+                 cross-sectional signals (is it 0.045 written as 0.45?)"
+            ));
+        }
+        for (alt, curve) in &self.alternatives {
+            if let Some(k) = (1..=lags).find(|&k| curve.ic(k).abs() > 0.2) {
+                out.push(format!(
+                    "stress alternative {alt:?} reaches an IC of {:.3} at lag {k} (above 0.2)",
+                    curve.ic(k)
+                ));
+            }
+        }
+        if self.residual_vol > 0.5 || self.residual_vol < 0.001 {
+            out.push(format!(
+                "residual_vol {} is {:.1} % per period; residual volatility is a decimal, usually a few per cent a \
+                 month (0.06 = 6 %)",
+                self.residual_vol,
+                self.residual_vol * 100.0
+            ));
+        }
+        if self.ic_vol > 0.3 {
+            out.push(format!(
+                "ic_vol {} means the IC's own swings (sd {}) dwarf a typical IC of a few hundredths",
+                self.ic_vol, self.ic_vol
+            ));
+        }
+        if self.portfolio.cost_bps > 200.0 {
+            out.push(format!(
+                "portfolio.cost_bps {} is a one-way cost of {:.1} %; costs are usually a few to a few tens of basis points",
+                self.portfolio.cost_bps,
+                self.portfolio.cost_bps / 100.0
+            ));
+        }
+        out
+    }
+}
+
 /// Parses a scenario text (syntax, unknown fields and types only).
 ///
 /// # Errors
