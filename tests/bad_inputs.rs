@@ -107,7 +107,7 @@ fn cases() -> Vec<(Case, String)> {
         // Values out of range.
         t(RUN, "assets = 5\n{D}", &["line 1", "`assets` must be at least 10, got 5"]),
         t(RUN, "horizons = 0\n{D}", &["line 1", "`horizons` must be at least 1, got 0"]),
-        t(RUN, "history = 20\nhorizons = 24\n{D}", &["line 1", "`history` must be at least horizons + 2 = 26"]),
+        t(RUN, "history = 27\nhorizons = 24\n{D}", &["line 1", "`history` must be at least horizons + 4 = 28"]),
         t(RUN, "assets = 100000\nhistory = 1000\n{D}", &["line 1", "`assets`", "assets × history ≤ 50000000"]),
         t(RUN, "paths = 0\n{D}", &["line 1", "`paths` must be at least 1"]),
         t(RUN, "paths = 10000000\n{D}", &["line 1", "paths × horizons ≤ 20000000"]),
@@ -155,7 +155,7 @@ fn cases() -> Vec<(Case, String)> {
         o(&["run", "monthly-stedy"], &["monthly-stedy", "did you mean `monthly-steady`"]),
         o(&["run", "no-such-file.toml"], &["no-such-file.toml", "built-in presets"]),
         o(&["run", "monthly-steady", "--horizons", "0"], &["option --horizons", "at least 1, got 0"]),
-        o(&["run", "monthly-steady", "--history", "10"], &["option --history", "at least horizons + 2 = 26"]),
+        o(&["run", "monthly-steady", "--history", "10"], &["option --history", "at least horizons + 4 = 28"]),
         o(&["run", "monthly-steady", "--assets", "3"], &["option --assets", "at least 10, got 3"]),
         o(&["run", "monthly-steady", "--assets", "20"], &["portfolio.quantiles", "with --assets 20 from the command line"]),
         o(&["run", "monthly-steady", "--paths", "-3"], &["--paths", "whole number"]),
@@ -167,7 +167,7 @@ fn cases() -> Vec<(Case, String)> {
         o(&["run", "monthly-steady", "--cost-bps", "1,2,3,4,5,6,7,8,9,10,11,12,13,14,15,16,17,18,19,20,21,22,23,24,25,26,27,28,29,30,31,32,33,34,35,36,37,38,39,40,41,42,43,44,45,46,47,48,49,50,51"], &["--cost-bps", "51 levels", "at most 50"]),
         o(&["stress", "monthly-steady", "--cost-bps", "1,2"], &["--cost-bps", "2 levels", "`stress`", "at most 1"]),
         o(&["plan", "monthly-steady", "--cost-bps", "1,2"], &["--cost-bps", "`plan`", "at most 1"]),
-        o(&["plan", "monthly-steady", "--histories", "10"], &["--histories", "at least horizons + 2"]),
+        o(&["plan", "monthly-steady", "--histories", "10"], &["--histories", "at least horizons + 4"]),
         o(&["run", "monthly-steady", "--bogus"], &["--bogus"]),
         o(&["frobnicate"], &["frobnicate"]),
         // Panels.

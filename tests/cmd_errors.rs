@@ -64,7 +64,7 @@ fn infeasible_variance_names_the_parts() {
 #[test]
 fn horizons_must_stay_below_history() {
     let err = fails(&format!("history = 30\nhorizons = 30\n{DECAY}"), &[]);
-    has(&err, &["line 1", "`history` must be at least horizons + 2 = 32", "got 30"]);
+    has(&err, &["line 1", "`history` must be at least horizons + 4 = 34", "got 30"]);
     let err = fails(&format!("history = 40\n{DECAY}"), &["--horizons", "40"]);
     has(&err, &["history", "got 40"]);
 }
@@ -176,13 +176,13 @@ fn command_line_values_are_blamed_on_their_option_not_a_line() {
     has(&err, &["option --horizons: `horizons` must be at least 1, got 0"]);
     assert!(!err.contains("line"), "{err}");
     let err = fails(&text, &["--history", "5"]);
-    has(&err, &["option --history: `history` must be at least horizons + 2 = 8"]);
+    has(&err, &["option --history: `history` must be at least horizons + 4 = 10"]);
     // A rule on a file value that an option moved names both.
     let err = fails(&text, &["--horizons", "100"]);
-    has(&err, &["bad.toml (with --horizons 100 from the command line), line 2", "horizons + 2 = 102"]);
+    has(&err, &["bad.toml (with --horizons 100 from the command line), line 2", "horizons + 4 = 104"]);
     // No wrapped arithmetic at the largest value.
     let err = fails(&text, &["--horizons", "18446744073709551615"]);
-    has(&err, &["horizons + 2 = 18446744073709551615"]);
+    has(&err, &["horizons + 4 = 18446744073709551615"]);
 }
 
 #[test]

@@ -6,7 +6,7 @@ use super::{Failure, print, progress};
 use crate::plan::{self, Goal};
 use crate::portfolio::PortfolioTruth;
 use crate::report;
-use crate::scenario::MAX_ASSET_DATES;
+use crate::scenario::{HISTORY_NOTE, MAX_ASSET_DATES, MIN_HISTORY_WORDS, min_history};
 use crate::study::Setup;
 use std::path::{Path, PathBuf};
 
@@ -39,14 +39,14 @@ fn grid(a: &PlanArgs, history: usize, horizons: usize) -> Result<Vec<usize>, Fai
         a.histories.clone()
     };
     if a.histories.is_empty() {
-        g.retain(|&t| t >= horizons + 2);
+        g.retain(|&t| t >= min_history(horizons));
     }
     g.sort_unstable();
     g.dedup();
-    if let Some(&bad) = g.iter().find(|&&t| t < horizons + 2) {
+    if let Some(&bad) = g.iter().find(|&&t| t < min_history(horizons)) {
         return Err(Failure::input(format!(
-            "`--histories` value {bad} must be at least horizons + 2 = {} (each horizon needs two dates)",
-            horizons + 2
+            "`--histories` value {bad} must be at least {MIN_HISTORY_WORDS} = {} ({HISTORY_NOTE})",
+            min_history(horizons)
         )));
     }
     Ok(g)

@@ -158,7 +158,7 @@ pub fn allowed_words(path: &str) -> Option<&'static str> {
     };
     Some(match path {
         "assets" => "a whole number, at least 10",
-        "history" => "a whole number, at least horizons + 2",
+        "history" => "a whole number, at least horizons + 4",
         "horizons" | "paths" => "a whole number, at least 1",
         "truncation" => "a whole number from 1 to 20000",
         "seed" => "a whole number from 0 to 18446744073709551615",

@@ -26,6 +26,19 @@ pub const RESERVED_NAMES: [&str; 5] = ["assumed", "faster", "slower", "hump", "r
 /// and a line on every stress chart).
 pub const MAX_ALTERNATIVES: usize = 24;
 
+/// The shortest history for `horizons`: each horizon needs two dates, and the
+/// holding books of the longest horizon at least three dates of returns
+/// (`history − 1 − horizons ≥ 3`), or a history's measured net IR has no
+/// spread and the study's averages of it are not finite.
+pub fn min_history(horizons: usize) -> usize {
+    horizons.saturating_add(4)
+}
+
+/// [`min_history`] in words.
+pub const MIN_HISTORY_WORDS: &str = "horizons + 4";
+/// Why.
+pub const HISTORY_NOTE: &str = "each horizon needs two dates and the longest holding's books three dates of returns";
+
 /// Largest `portfolio.reference_paths`.
 pub const MAX_REFERENCE_PATHS: usize = 100_000;
 /// Largest residual volatility per period (returns are decimals).
@@ -215,11 +228,11 @@ impl Scenario {
         if raw.horizons < 1 {
             return Err(out_of_range("horizons", raw.horizons, "at least 1"));
         }
-        if raw.history <= raw.horizons.saturating_add(1) {
+        if raw.history < min_history(raw.horizons) {
             return Err(out_of_range(
                 "history",
                 raw.history,
-                &format!("at least horizons + 2 = {} (each horizon needs two dates)", raw.horizons.saturating_add(2)),
+                &format!("at least {} = {} ({HISTORY_NOTE})", MIN_HISTORY_WORDS, min_history(raw.horizons)),
             ));
         }
         // Memory guards: a history is held twice per worker, every path's curves once.
