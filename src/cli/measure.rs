@@ -250,6 +250,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
         }
         Err(e) => result.warnings.push(format!("no calibrated scenario (calibrated.toml not written): {e}")),
     }
+    super::finite(&result)?;
     files.push(("measure.json".into(), report::measure_json(&result)));
     files.push(("measure_lags.csv".into(), report::measure_csv(&result)));
     files.push(("per_date.csv".into(), report::per_date_csv(&result)));

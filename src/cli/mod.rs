@@ -88,6 +88,21 @@ impl Failure {
     }
 }
 
+/// Refuses to write a result holding a number that is not finite (JSON would
+/// show it as `null`, a table as `NaN`).
+///
+/// # Errors
+/// The path and value of the first such number (exit code 1).
+pub(crate) fn finite<T: serde::Serialize + ?Sized>(result: &T) -> Result<(), Failure> {
+    match crate::report::first_non_finite(result) {
+        None => Ok(()),
+        Some((path, v)) => Err(Failure::other(format!(
+            "a result is not finite ({path} = {v}), so nothing was written; this is a bug or an input at the \
+             edge of the model: please report it with the scenario or panel"
+        ))),
+    }
+}
+
 /// Writes to stdout; a closed pipe (`lagfold … | head`) is not an error.
 pub(crate) fn print(text: &str) -> Result<(), Failure> {
     let mut out = std::io::stdout().lock();

@@ -87,6 +87,7 @@ pub fn run(a: &PlanArgs) -> Result<(), Failure> {
     let bar = progress::bar(s.paths, a.study.quiet, "plan");
     let result = plan::run(&setup, &portfolio, &histories, a.target, threads, &|d| bar.set_position(d as u64));
     bar.finish_and_clear();
+    super::finite(&result)?;
     let mut files =
         vec![("plan.json".to_string(), report::plan_json(s, &result)), ("plan.csv".into(), report::plan_csv(&result))];
     let charts = super::charts(a.study.no_charts, || report::plan_charts(s, &result, &a.target))?;

@@ -213,6 +213,7 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
         rows.push(report::SweepPoint::new(p, &setup, &portfolio, result));
     }
     bar.finish_and_clear();
+    super::finite(&rows)?;
     let mut files =
         vec![("sweep.json".to_string(), report::sweep_json(&rows)), ("sweep.csv".into(), report::sweep_csv(&rows))];
     let charts = super::charts(a.no_charts, || report::sweep_charts(&rows))?;
@@ -247,6 +248,7 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     let sweep = if a.cost_bps.len() > 1 { a.cost_bps.clone() } else { Vec::new() };
     let (portfolio, result) = truth_and_study(&setup, a, &sweep);
     let summary = Summary::new(&setup, &portfolio, &result);
+    super::finite(&summary)?;
     let mut files = vec![
         ("summary.json".to_string(), report::summary_json(&summary)),
         ("curves.csv".into(), report::curves_csv(&setup, &result)),

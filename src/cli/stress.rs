@@ -47,6 +47,7 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
     let result = stress::run(&scenario, threads(&a.study), &|d| bar.set_position(d as u64))
         .map_err(|(name, e)| Failure::input(format!("{origin}: curve `{name}`: {e}")))?;
     bar.finish_and_clear();
+    super::finite(&result)?;
     let mut files = vec![
         ("stress.json".to_string(), report::stress_json(&scenario, &result)),
         ("stress.csv".into(), report::stress_csv(&result)),

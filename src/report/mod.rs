@@ -4,6 +4,7 @@
 pub(crate) mod charts;
 mod compare_out;
 mod csv_tables;
+mod finite;
 pub mod html;
 mod measure_out;
 mod outdir;
@@ -23,6 +24,7 @@ pub use compare_out::{
     BlendWeight, SignalComparison, SignalSummary, comparison_terminal, paired_correlation, signals_csv,
 };
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
+pub use finite::first_non_finite;
 pub use measure_out::{
     BestHorizon, BootCounts, Bootstrap, CalibratedNet, CalibratedStudy, Curve, MeasureResult, PerDateTable,
     SkippedDate, SuccessRatio, TimingCheck, finite, measure_csv, measure_json, measure_terminal, per_date_csv,
