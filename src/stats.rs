@@ -71,11 +71,33 @@ pub fn quantile_sorted(sorted: &[f64], q: f64) -> f64 {
     sorted[lo] + frac * (sorted[hi] - sorted[lo])
 }
 
+/// The `q` quantile of a sorted sample as one of its own values: the smallest
+/// `x` whose empirical distribution function reaches `q` (Hyndman and Fan,
+/// 1996, definition 1). For whole-number data such as chosen horizons, so that
+/// a range reads "3–9", not "3–9.05".
+pub fn quantile_discrete(sorted: &[f64], q: f64) -> f64 {
+    if sorted.is_empty() {
+        return f64::NAN;
+    }
+    let rank = (q * sorted.len() as f64).ceil() as usize;
+    sorted[rank.clamp(1, sorted.len()) - 1]
+}
+
 /// Quantile band levels reported for curves.
 pub const BAND_LEVELS: [f64; 5] = [0.05, 0.25, 0.5, 0.75, 0.95];
 
 #[cfg(test)]
 mod tests {
+
+    #[test]
+    fn discrete_quantiles_are_sample_values() {
+        let x = [1.0, 2.0, 3.0, 4.0, 9.0, 10.0];
+        assert_eq!(super::quantile_discrete(&x, 0.5), 3.0); // F(3) = 3/6 reaches 0.5
+        assert_eq!(super::quantile_discrete(&x, 0.95), 10.0);
+        assert_eq!(super::quantile_discrete(&x, 0.05), 1.0);
+        assert!(super::quantile_discrete(&[], 0.5).is_nan());
+    }
+
     use super::*;
 
     #[test]

@@ -55,14 +55,20 @@ fn mark(best: bool, near: bool) -> &'static str {
     }
 }
 
+/// `100·x` to one decimal without a negative zero (`-0.0` prints as `0.0`).
+fn per_cent(x: f64) -> f64 {
+    let v = 100.0 * x;
+    if v.abs() < 0.05 { 0.0 } else { v }
+}
+
 fn pct(x: f64) -> String {
-    format!("{:.1}%", 100.0 * x)
+    format!("{:.1}%", per_cent(x))
 }
 
 fn pct_se(x: f64, se: Option<f64>) -> String {
     match se {
-        Some(s) => format!("{:>5.1}% ± {:.1}", 100.0 * x, 100.0 * s),
-        None => format!("{:>5.1}%", 100.0 * x),
+        Some(s) => format!("{:>5.1}% ± {:.1}", per_cent(x), per_cent(s)),
+        None => format!("{:>5.1}%", per_cent(x)),
     }
 }
 

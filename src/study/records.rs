@@ -3,7 +3,7 @@
 
 use super::{Outcomes, Setup};
 use crate::measure::rules::Rule;
-use crate::stats::{BAND_LEVELS, Moments, Proportion, quantile_sorted};
+use crate::stats::{BAND_LEVELS, Moments, Proportion, quantile_discrete, quantile_sorted};
 use crate::truth::{argmax1, near_set};
 use serde::Serialize;
 
@@ -136,7 +136,7 @@ pub fn rule_stats(
         winners_curse_mean: curse.mean(),
         winners_curse_mean_se: curse.se(),
         choice_counts: counts,
-        choice_quantiles: BAND_LEVELS.iter().map(|&q| quantile_sorted(&chosen, q)).collect(),
+        choice_quantiles: BAND_LEVELS.iter().map(|&q| quantile_discrete(&chosen, q)).collect(),
         regret_bps_year_mean: None,
         regret_bps_year_mean_se: None,
     }
