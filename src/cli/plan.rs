@@ -80,7 +80,8 @@ pub fn run(a: &PlanArgs) -> Result<(), Failure> {
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
     let threads = threads(&a.study);
     let s = &setup.scenario;
-    progress::warn_long(s.paths + s.portfolio.reference_paths, s.assets, s.history, threads, a.study.quiet);
+    let what = super::run::histories_words(s.paths + s.portfolio.reference_paths, s);
+    progress::warn_long(super::run::study_asset_dates(s), &what, threads, a.study.quiet);
     let bar = progress::bar(s.portfolio.reference_paths, a.study.quiet, "reference");
     let portfolio = PortfolioTruth::compute(&setup, threads, &|d| bar.set_position(d as u64));
     bar.finish_and_clear();

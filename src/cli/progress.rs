@@ -43,12 +43,9 @@ pub fn long_work(asset_dates: f64, what: &str, threads: usize) -> Option<String>
     ))
 }
 
-/// Prints [`long_work`]'s note for `histories` histories of `assets` ×
-/// `dates` on stderr unless `quiet`.
-pub fn warn_long(histories: usize, assets: usize, dates: usize, threads: usize, quiet: bool) {
-    let what = format!("{histories} histories of {assets} assets × {dates} dates");
-    let asset_dates = histories as f64 * assets as f64 * dates as f64;
-    if let Some(note) = long_work(asset_dates, &what, threads)
+/// Prints [`long_work`]'s note on stderr unless `quiet`.
+pub fn warn_long(asset_dates: f64, what: &str, threads: usize, quiet: bool) {
+    if let Some(note) = long_work(asset_dates, what, threads)
         && !quiet
     {
         eprintln!("{note}");

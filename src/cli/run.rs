@@ -74,11 +74,10 @@ impl StudyArgs {
         for (i, &c) in self.cost_bps.iter().enumerate() {
             let key = if self.cost_bps.len() > 1 { format!("--cost-bps value {}", i + 1) } else { "--cost-bps".into() };
             scenario::check_cost_bps(&key, c).map_err(|e| Failure::input(format!("option {e}")))?;
-            if c > 200.0 && !self.quiet {
-                eprintln!(
-                    "warning: option {key}: {c} bps is a one-way cost of {:.1} %; costs are usually a few to a few tens of basis points",
-                    c / 100.0
-                );
+            if let Some(w) = scenario::implausible_cost(&format!("option {key}"), c)
+                && !self.quiet
+            {
+                eprintln!("warning: {w}");
             }
         }
         Ok(&self.cost_bps)
@@ -100,7 +99,12 @@ impl StudyArgs {
 /// progress bar.
 pub fn truth_and_study(setup: &Setup, a: &StudyArgs, sweep: &[f64]) -> (PortfolioTruth, study::StudyResult) {
     let s = &setup.scenario;
-    progress::warn_long(s.paths + s.portfolio.reference_paths, s.assets, s.history, threads(a), a.quiet);
+    progress::warn_long(
+        study_asset_dates(s),
+        &histories_words(s.paths + s.portfolio.reference_paths, s),
+        threads(a),
+        a.quiet,
+    );
     let (threads, s) = (threads(a), &setup.scenario);
     let bar = progress::bar(s.portfolio.reference_paths, a.quiet, "reference");
     let portfolio = PortfolioTruth::compute(setup, threads, &|done| bar.set_position(done as u64));
@@ -120,15 +124,30 @@ pub fn threads(a: &StudyArgs) -> usize {
 pub fn read_scenario(path: &Path, ov: &Overrides) -> Result<Scenario, Failure> {
     let (text, origin, stem) = read_text(path)?;
     let s = scenario::load(&text, &origin, &stem, ov).map_err(Failure::input)?;
-    warn_implausible(&s, &origin);
+    warn_implausible(&[&s], &origin);
     Ok(s)
 }
 
-/// Prints the scenario's implausible values as warnings on stderr.
-pub fn warn_implausible(s: &Scenario, origin: &str) {
-    for w in s.implausible() {
-        eprintln!("warning: {origin}: {w}");
+/// Prints the implausible values of the scenarios (a sweep's grid points)
+/// as warnings on stderr, each once.
+pub fn warn_implausible(scenarios: &[&Scenario], origin: &str) {
+    let mut said = Vec::new();
+    for w in scenarios.iter().flat_map(|s| s.implausible()) {
+        if !said.contains(&w) {
+            eprintln!("warning: {origin}: {w}");
+            said.push(w);
+        }
     }
+}
+
+/// "`n` histories of `N` assets × `T` dates".
+pub fn histories_words(n: usize, s: &Scenario) -> String {
+    format!("{n} histories of {} assets × {} dates", s.assets, s.history)
+}
+
+/// Asset-dates simulated by a study of `s` and its reference simulation.
+pub fn study_asset_dates(s: &Scenario) -> f64 {
+    (s.paths + s.portfolio.reference_paths) as f64 * s.assets as f64 * s.history as f64
 }
 
 /// The text of a scenario file (or preset), its origin for messages and its default name.
@@ -161,19 +180,11 @@ pub fn run(a: &RunArgs) -> Result<(), Failure> {
     };
     if axes.is_empty() {
         let scenario = scenario::load(&text, &origin, &stem, &a.study.overrides()).map_err(Failure::input)?;
-        warn_implausible(&scenario, &origin);
+        warn_implausible(&[&scenario], &origin);
         return execute(scenario, &a.study, &origin);
     }
     let points = sweep::expand(&text, &origin, &stem, &a.study.overrides(), &axes).map_err(Failure::input)?;
-    let mut said = Vec::new();
-    for p in &points {
-        for w in p.scenario.implausible() {
-            if !said.contains(&w) {
-                eprintln!("warning: {origin}: {w}");
-                said.push(w);
-            }
-        }
-    }
+    warn_implausible(&points.iter().map(|p| &p.scenario).collect::<Vec<_>>(), &origin);
     run_sweep(&points, &a.study, &origin)
 }
 
@@ -185,18 +196,8 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let threads = threads(a);
     let total: usize = points.iter().map(|p| p.scenario.paths).sum();
-    let asset_dates: f64 = points
-        .iter()
-        .map(|p| {
-            let s = &p.scenario;
-            (s.paths + s.portfolio.reference_paths) as f64 * s.assets as f64 * s.history as f64
-        })
-        .sum();
-    if let Some(note) = progress::long_work(asset_dates, &format!("{} grid points", points.len()), threads)
-        && !a.quiet
-    {
-        eprintln!("{note}");
-    }
+    let asset_dates = points.iter().map(|p| study_asset_dates(&p.scenario)).sum();
+    progress::warn_long(asset_dates, &format!("{} grid points", points.len()), threads, a.quiet);
     let bar = progress::bar(total, a.quiet, "sweep");
     let mut done = 0;
     let mut rows = Vec::with_capacity(points.len());

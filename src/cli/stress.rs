@@ -35,13 +35,10 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
             a.scenario.display()
         )));
     }
-    progress::warn_long(
-        n_curves * scenario.portfolio.reference_paths,
-        scenario.assets,
-        scenario.history,
-        threads(&a.study),
-        a.study.quiet,
-    );
+    let histories = n_curves * scenario.portfolio.reference_paths;
+    let asset_dates = histories as f64 * scenario.assets as f64 * scenario.history as f64;
+    let what = super::run::histories_words(histories, &scenario);
+    progress::warn_long(asset_dates, &what, threads(&a.study), a.study.quiet);
     let bar = progress::bar(n_curves, a.study.quiet, "curves");
     let origin = a.scenario.display().to_string();
     let result = stress::run(&scenario, threads(&a.study), &|d| bar.set_position(d as u64))

@@ -2,7 +2,7 @@
 //! line, the allowed values in words (not Rust's type names), and the nearest
 //! allowed key for a misspelt one.
 
-use super::locate::line_of;
+use super::locate::{Tables, line_of};
 use super::spelling::nearest;
 use crate::error::InputError;
 
@@ -85,19 +85,11 @@ fn scope_at(text: &str, offset: usize) -> String {
     // Headers up to the end of the offset's line: an error reported at a
     // header (a missing key) is about that header's table.
     let line_end = text[offset..].find('\n').map_or(text.len(), |i| offset + i);
-    let mut table = String::new();
-    let mut arrays = std::collections::HashMap::<String, usize>::new();
+    let mut tables = Tables::default();
     for l in text[..line_end].lines() {
-        let t = l.trim();
-        if let Some(h) = t.strip_prefix("[[") {
-            let name = h.split("]]").next().unwrap_or("").trim().to_string();
-            let n = arrays.entry(name.clone()).or_insert(0);
-            table = format!("{name}[{n}]");
-            *n += 1;
-        } else if let Some(h) = t.strip_prefix('[') {
-            table = h.split(']').next().unwrap_or("").trim().to_string();
-        }
+        tables.read(l.trim());
     }
+    let table = tables.current;
     // Inline table on the offset's own line: `decay = { family = "x", … }`.
     let line_start = before.rfind('\n').map_or(0, |i| i + 1);
     let head = &text[line_start..offset];

@@ -26,29 +26,17 @@ pub fn line_of(text: &str, key_path: &str) -> Option<usize> {
         }
         false
     };
-    let mut current = String::new();
-    let mut arrays: HashMap<String, usize> = HashMap::new();
+    let mut tables = Tables::default();
     for (i, raw) in text.lines().enumerate() {
         let t = raw.split('#').next().unwrap_or("").trim();
-        if let Some(h) = t.strip_prefix("[[") {
-            let name = clean(h.split("]]").next().unwrap_or(""));
-            let n = arrays.entry(name.clone()).or_insert(0);
-            current = format!("{name}[{n}]");
-            *n += 1;
-            if consider(&current, i + 1) {
-                return Some(i + 1);
-            }
-            continue;
-        }
-        if let Some(h) = t.strip_prefix('[') {
-            current = clean(h.split(']').next().unwrap_or(""));
-            if consider(&current, i + 1) {
+        if tables.read(t) {
+            if consider(&tables.current, i + 1) {
                 return Some(i + 1);
             }
             continue;
         }
         let Some((k, v)) = t.split_once('=') else { continue };
-        let full = join(&current, &clean(k));
+        let full = join(&tables.current, &clean(k));
         if consider(&full, i + 1) {
             return Some(i + 1);
         }
@@ -63,6 +51,33 @@ pub fn line_of(text: &str, key_path: &str) -> Option<usize> {
         }
     }
     best.map(|(_, line)| line)
+}
+
+/// Follows the table headers of a TOML text line by line: `[a.b]` is
+/// `a.b`, the n-th `[[a.b]]` is `a.b[n−1]`.
+#[derive(Default)]
+pub struct Tables {
+    /// The table the lines read so far are in (`""` at the top).
+    pub current: String,
+    arrays: HashMap<String, usize>,
+}
+
+impl Tables {
+    /// Reads one trimmed line; whether it was a header.
+    pub fn read(&mut self, t: &str) -> bool {
+        if let Some(h) = t.strip_prefix("[[") {
+            let name = clean(h.split("]]").next().unwrap_or(""));
+            let n = self.arrays.entry(name.clone()).or_insert(0);
+            self.current = format!("{name}[{n}]");
+            *n += 1;
+            true
+        } else if let Some(h) = t.strip_prefix('[') {
+            self.current = clean(h.split(']').next().unwrap_or(""));
+            true
+        } else {
+            false
+        }
+    }
 }
 
 /// A key or header as a dotted path without quotes or spaces.

@@ -408,15 +408,20 @@ impl Scenario {
                 self.ic_vol, self.ic_vol
             ));
         }
-        if self.portfolio.cost_bps > 200.0 {
-            out.push(format!(
-                "portfolio.cost_bps {} is a one-way cost of {:.1} %; costs are usually a few to a few tens of basis points",
-                self.portfolio.cost_bps,
-                self.portfolio.cost_bps / 100.0
-            ));
-        }
+        out.extend(implausible_cost("portfolio.cost_bps", self.portfolio.cost_bps));
         out
     }
+}
+
+/// A one-way cost above 200 bps, in words (common practice: costs are a few
+/// to a few tens of basis points).
+pub fn implausible_cost(key: &str, bps: f64) -> Option<String> {
+    (bps > 200.0).then(|| {
+        format!(
+            "{key} {bps} is a one-way cost of {:.1} %; costs are usually a few to a few tens of basis points",
+            bps / 100.0
+        )
+    })
 }
 
 /// Parses a scenario text (syntax, unknown fields and types only).

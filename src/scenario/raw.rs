@@ -227,12 +227,10 @@ impl RawDecay {
         };
         let all: Vec<&str> = required.iter().chain(optional).copied().collect();
         let reason = || format!("with family {family}, which takes {}", takes(&all));
-        for (k, v) in self.present() {
-            if !all.contains(&k) {
-                return Err(ScenarioError::NoEffect { key: key(k), value: v, reason: reason() });
-            }
-        }
         let present = self.present();
+        if let Some((k, v)) = present.iter().find(|(k, _)| !all.contains(k)) {
+            return Err(ScenarioError::NoEffect { key: key(k), value: v.clone(), reason: reason() });
+        }
         if let Some(k) = required.iter().find(|k| !present.iter().any(|(p, _)| p == *k)) {
             return Err(ScenarioError::Missing { key: key(k), reason: reason() });
         }
