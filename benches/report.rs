@@ -13,7 +13,7 @@ use std::hint::black_box;
 fn draw(setup: &study::Setup, truth: &PortfolioTruth, result: &study::StudyResult) -> usize {
     let set = ChartSet::render(&report::study_charts(setup, truth, result)).expect("charts draw");
     let page = report::html::study_page(setup, truth, result, set.inline);
-    set.files.len() + report::html::render(&page).len()
+    set.files.len() + report::html::render(&page, &report::Made::now()).len()
 }
 
 fn benches(c: &mut Criterion) {

@@ -65,6 +65,16 @@ impl Metric {
             Metric::Regret => (r.regret_rel_mean, r.regret_rel_mean_se.unwrap_or(0.0)),
         }
     }
+
+    /// The 95 % Wilson interval of a share (`None` for the regret, a mean).
+    pub fn ci(self, r: &RuleStats) -> Option<[f64; 2]> {
+        match self {
+            Metric::Hit => Some(r.hit_rate_ci),
+            Metric::NearHit => Some(r.near_hit_rate_ci),
+            Metric::NearBest => Some(r.near_best_rate_ci),
+            Metric::Regret => None,
+        }
+    }
 }
 
 /// A target such as `near-hit>=0.8` or `fitted:regret<=0.05`.

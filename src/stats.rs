@@ -42,21 +42,42 @@ impl Moments {
     }
 }
 
-/// A proportion with its binomial standard error `sqrt(p(1−p)/n)`.
+/// A proportion with its binomial standard error `sqrt(p(1−p)/n)` and its
+/// 95 % Wilson interval.
 #[derive(Debug, Clone, Copy, Serialize)]
 pub struct Proportion {
     /// Share of paths.
     pub rate: f64,
     /// Monte Carlo standard error.
     pub se: f64,
+    /// 95 % Wilson score interval.
+    pub ci: [f64; 2],
 }
 
 impl Proportion {
     /// `hits` out of `n`.
     pub fn new(hits: u64, n: u64) -> Self {
         let p = hits as f64 / n as f64;
-        Self { rate: p, se: (p * (1.0 - p) / n as f64).sqrt() }
+        Self { rate: p, se: (p * (1.0 - p) / n as f64).sqrt(), ci: wilson(p, n as f64) }
     }
+}
+
+/// The two-sided 95 % normal quantile, `Φ⁻¹(0.975)`.
+pub const Z95: f64 = 1.959_963_984_540_054;
+
+/// The 95 % Wilson score interval of a share `p` observed in `n` trials
+/// (Wilson, 1927; recommended over `p ± z·se` by Brown, Cai and DasGupta,
+/// 2001): `(p + z²/2n ± z·sqrt(p(1−p)/n + z²/4n²)) / (1 + z²/n)`. It stays
+/// inside [0, 1] and is not empty at 0 or 1, where `± z·se` collapses to a point.
+pub fn wilson(p: f64, n: f64) -> [f64; 2] {
+    if n <= 0.0 {
+        return [0.0, 1.0];
+    }
+    let z2 = Z95 * Z95;
+    let centre = p + z2 / (2.0 * n);
+    let half = Z95 * (p * (1.0 - p) / n + z2 / (4.0 * n * n)).sqrt();
+    let d = 1.0 + z2 / n;
+    [((centre - half) / d).max(0.0), ((centre + half) / d).min(1.0)]
 }
 
 /// Quantile `q` of sorted data, linear interpolation between order statistics
@@ -117,5 +138,21 @@ mod tests {
         let mean = xs.iter().sum::<f64>() / 5.0;
         let var = xs.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / 4.0;
         assert!((m.mean() - mean).abs() < 1e-15 && (m.sd().unwrap() - var.sqrt()).abs() < 1e-14);
+    }
+
+    #[test]
+    fn wilson_matches_statsmodels() {
+        // statsmodels 0.14 `proportion_confint(k, n, alpha=0.05, method="wilson")`.
+        let cases = [
+            (0, 200, 0.0, 0.018_845_326_377_266_58),
+            (48, 200, 0.186_066_159_924_136_9, 0.303_733_409_792_041_7),
+            (200, 200, 0.981_154_673_622_733_5, 1.0),
+            (3, 10, 0.107_791_267_405_801_04, 0.603_221_852_538_854_6),
+            (1, 1000, 0.000_176_546_370_626_077_65, 0.005_642_558_597_957_937),
+        ];
+        for (k, n, lo, hi) in cases {
+            let [a, b] = wilson(k as f64 / n as f64, n as f64);
+            assert!((a - lo).abs() < 1e-12 && (b - hi).abs() < 1e-12, "{k}/{n}: [{a}, {b}] vs [{lo}, {hi}]");
+        }
     }
 }

@@ -172,7 +172,9 @@ fn a_file_with_lists_runs_the_grid_and_writes_one_row_per_point_and_rule() {
 fn outputs_are_byte_identical_on_one_and_two_threads() {
     let tmp = tempfile::tempdir().unwrap();
     for threads in ["1", "2"] {
+        // The report's date comes from SOURCE_DATE_EPOCH, so a run across midnight cannot differ.
         lagfold()
+            .env("SOURCE_DATE_EPOCH", "1796256000")
             .args([
                 "run",
                 "monthly-regimes",
@@ -208,6 +210,14 @@ fn outputs_are_byte_identical_on_one_and_two_threads() {
         let two = std::fs::read(tmp.path().join("2").join(&file)).unwrap();
         assert!(one == two, "{file} differs between 1 and 2 threads");
     }
+    let report = std::fs::read_to_string(tmp.path().join("1/report.html")).unwrap();
+    assert!(
+        report.contains("Made 2026-12-03 by lagfold")
+            && report.contains(
+                "<code>lagfold run monthly-regimes --paths 150 --assets 120 --history 60 --horizons 12</code>"
+            ),
+        "the report records its date and the command line without --out, --threads and -q"
+    );
 }
 
 #[test]

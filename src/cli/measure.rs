@@ -278,7 +278,7 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     });
     files.push((
         "report.html".into(),
-        report::html::render(&report::html::measure_page(&result, settings, charts.inline)),
+        report::html::render(&report::html::measure_page(&result, settings, charts.inline), &report::Made::now()),
     ));
     out.commit(&files).map_err(Failure::other)?;
     if !a.study.quiet {
@@ -339,6 +339,7 @@ fn calibrated_study(
             true_best_holding: row.true_best_holding,
             hit_rate: row.measured.hit_rate,
             hit_rate_se: row.measured.hit_rate_se,
+            hit_rate_ci: row.measured.hit_rate_ci,
             near_hit_rate: row.measured.near_hit_rate,
             near_hit_rate_se: row.measured.near_hit_rate_se,
             regret_bps_year_mean: row.measured.regret_bps_year_mean,
@@ -358,6 +359,7 @@ fn calibrated_study(
             true_best_horizon: setup.truth.best_horizon,
             near_hit_rate: rules.map(|x| x.near_hit_rate),
             near_hit_rate_se: rules.map(|x| x.near_hit_rate_se),
+            near_hit_rate_ci: rules.map(|x| x.near_hit_rate_ci),
             regret_rel_mean: rules.map(|x| x.regret_rel_mean),
             net,
         },

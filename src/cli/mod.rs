@@ -103,8 +103,38 @@ pub(crate) fn finite<T: serde::Serialize + ?Sized>(result: &T) -> Result<(), Fai
     }
 }
 
-/// Writes to stdout; a closed pipe (`lagfold … | head`) is not an error.
+/// The width to fit text to on `term`, at most
+/// [`MAX_PROSE`](crate::report::text::MAX_PROSE): `COLUMNS` when set, else
+/// the terminal's width; `None` (lines kept whole, for `grep`) when the
+/// output goes to a file or a pipe.
+pub(crate) fn columns(fd: i32) -> Option<usize> {
+    let set = std::env::var("COLUMNS").ok().and_then(|c| c.trim().parse::<usize>().ok()).filter(|&c| c >= 20);
+    set.or_else(|| terminal_width(fd)).map(|c| c.min(crate::report::text::MAX_PROSE))
+}
+
+/// The width of the terminal on file descriptor `fd` (`TIOCGWINSZ`), if it is one.
+fn terminal_width(fd: i32) -> Option<usize> {
+    // SAFETY: `TIOCGWINSZ` writes one `winsize` into the struct we own; on
+    // anything but a terminal it fails and the struct is not read.
+    let mut size: libc::winsize = unsafe { std::mem::zeroed() };
+    let ok = unsafe { libc::ioctl(fd, libc::TIOCGWINSZ, &mut size) } == 0;
+    (ok && size.ws_col >= 20).then_some(usize::from(size.ws_col))
+}
+
+/// `text` fitted to the width of the terminal on `fd` (see [`columns`]).
+pub(crate) fn fitted(text: &str, fd: i32) -> String {
+    columns(fd).map_or_else(|| text.to_string(), |w| crate::report::text::fit(text, w))
+}
+
+/// A warning or note on stderr, fitted to the terminal.
+pub(crate) fn warn(text: &str) {
+    eprint!("{}", fitted(&format!("{text}\n"), libc::STDERR_FILENO));
+}
+
+/// Writes to stdout, fitted to the terminal; a closed pipe
+/// (`lagfold … | head`) is not an error.
 pub(crate) fn print(text: &str) -> Result<(), Failure> {
+    let text = fitted(text, libc::STDOUT_FILENO);
     let mut out = std::io::stdout().lock();
     match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
         Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => Err(Failure::other(e)),
@@ -152,7 +182,7 @@ pub fn main() -> i32 {
     match result {
         Ok(()) => 0,
         Err(f) => {
-            eprintln!("lagfold: {}", f.message);
+            warn(&format!("lagfold: {}", f.message));
             f.code
         }
     }

@@ -95,7 +95,7 @@ pub fn run(a: &PlanArgs) -> Result<(), Failure> {
     files.extend(charts.files);
     files.push((
         "report.html".into(),
-        report::html::render(&report::html::plan_page(s, &result, &a.target, charts.inline)),
+        report::html::render(&report::html::plan_page(s, &result, &a.target, charts.inline), &report::Made::now()),
     ));
     out.commit(&files).map_err(Failure::other)?;
     if !a.study.quiet {

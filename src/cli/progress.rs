@@ -10,7 +10,7 @@ pub fn bar(total: usize, quiet: bool, what: &str) -> ProgressBar {
     }
     let pb = ProgressBar::with_draw_target(Some(total as u64), ProgressDrawTarget::stderr());
     pb.set_style(
-        ProgressStyle::with_template("{spinner} {prefix} {pos}/{len} paths [{bar:25}] {rate} · {elapsed} · {eta} left")
+        ProgressStyle::with_template("{spinner} {prefix} {pos}/{len} [{wide_bar}] {rate} · {eta} left")
             .expect("valid template")
             .with_key("rate", |s: &ProgressState, w: &mut dyn std::fmt::Write| {
                 let _ = write!(w, "{:.0} paths/s", s.per_sec());
@@ -48,7 +48,7 @@ pub fn warn_long(asset_dates: f64, what: &str, threads: usize, quiet: bool) {
     if let Some(note) = long_work(asset_dates, what, threads)
         && !quiet
     {
-        eprintln!("{note}");
+        super::warn(&note);
     }
 }
 

@@ -77,7 +77,7 @@ impl StudyArgs {
             if let Some(w) = scenario::implausible_cost(&format!("option {key}"), c)
                 && !self.quiet
             {
-                eprintln!("warning: {w}");
+                super::warn(&format!("warning: {w}"));
             }
         }
         Ok(&self.cost_bps)
@@ -134,7 +134,7 @@ pub fn warn_implausible(scenarios: &[&Scenario], origin: &str) {
     let mut said = Vec::new();
     for w in scenarios.iter().flat_map(|s| s.implausible()) {
         if !said.contains(&w) {
-            eprintln!("warning: {origin}: {w}");
+            super::warn(&format!("warning: {origin}: {w}"));
             said.push(w);
         }
     }
@@ -221,7 +221,7 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
     files.extend(charts.files);
     let parameters = report::html::sweep_parameters(points);
     let page = report::html::sweep_page(name, &rows, parameters, charts.inline);
-    files.push(("report.html".into(), report::html::render(&page)));
+    files.push(("report.html".into(), report::html::render(&page, &report::Made::now())));
     out.commit(&files).map_err(Failure::other)?;
     if !a.quiet {
         let mut text = report::sweep_terminal(&rows);
@@ -262,7 +262,7 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     let charts = super::charts(a.no_charts, || report::study_charts(&setup, &portfolio, &result))?;
     files.extend(charts.files);
     let page = report::html::study_page(&setup, &portfolio, &result, charts.inline);
-    files.push(("report.html".into(), report::html::render(&page)));
+    files.push(("report.html".into(), report::html::render(&page, &report::Made::now())));
     out.commit(&files).map_err(Failure::other)?;
     if !a.quiet {
         let mut text = report::terminal_summary(&setup, &portfolio, &result);

@@ -52,7 +52,7 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
     let charts = super::charts(a.study.no_charts, || report::stress_charts(&scenario, &result))?;
     files.extend(charts.files);
     let page = report::html::stress_page(&scenario, &result, charts.inline);
-    files.push(("report.html".into(), report::html::render(&page)));
+    files.push(("report.html".into(), report::html::render(&page, &report::Made::now())));
     out.commit(&files).map_err(Failure::other)?;
     if !a.study.quiet {
         let mut text = report::stress_terminal(&scenario, &result);

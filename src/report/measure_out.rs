@@ -2,6 +2,7 @@
 
 use super::records::document;
 use super::summary::CAUTION;
+use super::text::share_words;
 use crate::measure::PerDate;
 use serde::Serialize;
 use std::fmt::Write;
@@ -162,6 +163,8 @@ pub struct CalibratedStudy {
     pub near_hit_rate: [f64; 3],
     /// Monte Carlo errors of `near_hit_rate`.
     pub near_hit_rate_se: [f64; 3],
+    /// 95 % Wilson intervals of `near_hit_rate`.
+    pub near_hit_rate_ci: [[f64; 2]; 3],
     /// Mean share of the best horizon IC given up.
     pub regret_rel_mean: [f64; 3],
     /// With `--cost-bps`: the net-IR rule at each cost (empty without).
@@ -180,6 +183,8 @@ pub struct CalibratedNet {
     pub hit_rate: f64,
     /// Its Monte Carlo error.
     pub hit_rate_se: f64,
+    /// Its 95 % Wilson interval.
+    pub hit_rate_ci: [f64; 2],
     /// Share within one period of it.
     pub near_hit_rate: f64,
     /// Its Monte Carlo error.
@@ -505,19 +510,18 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
         };
         out.push_str(&paragraph(&format!(
             "{like}{}; {} simulated, true best horizon {}): the peak rule lands within one period \
-             of the truth in {:.0}% ± {:.0} of them and gives up {:.1}% of the best horizon IC on average (formula \
+             of the truth in {} of them and gives up {:.1}% of the best horizon IC on average (formula \
              {:.0}%, fitted {:.0}%).",
             c.scenario_file,
             c.paths,
             c.true_best_horizon,
-            100.0 * c.near_hit_rate[0],
-            100.0 * c.near_hit_rate_se[0],
+            share_words(c.near_hit_rate[0], c.paths),
             100.0 * c.regret_rel_mean[0],
             100.0 * c.near_hit_rate[1],
             100.0 * c.near_hit_rate[2]
         )));
     }
-    for n in m.calibrated_study.iter().flat_map(|c| &c.net) {
+    for (n, paths) in m.calibrated_study.iter().flat_map(|c| c.net.iter().map(|n| (n, c.paths))) {
         let miss = match (n.regret_bps_year_mean, n.regret_bps_year_mean_se) {
             (Some(r), Some(se)) => format!("{r:.1} ± {se:.1} bps a year"),
             (Some(r), None) => format!("{r:.1} bps a year"),
@@ -525,12 +529,11 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
         };
         out.push_str(&paragraph(&format!(
             "Net of {} bps in those histories, the true best holding is {}; picking the holding with the best \
-             measured net IR finds it in {:.0}% ± {:.0} of them (within one period in {:.0}%), and gives up {miss} \
+             measured net IR finds it in {} of them (within one period in {:.0}%), and gives up {miss} \
              on average (unit gross book).",
             n.cost_bps,
             n.true_best_holding,
-            100.0 * n.hit_rate,
-            100.0 * n.hit_rate_se,
+            share_words(n.hit_rate, paths),
             100.0 * n.near_hit_rate,
         )));
     }

@@ -11,11 +11,13 @@ mod outdir;
 mod own_books_out;
 mod panel_csv;
 mod plan;
+mod provenance;
 pub(crate) mod records;
 mod stress;
 mod summary;
 mod sweep;
 mod terminal;
+pub mod text;
 
 pub use charts::{
     ChartSet, measure_charts, plan_charts, regret_bin_names, regret_shares, stress_charts, study_charts, sweep_charts,
@@ -34,6 +36,7 @@ pub use outdir::{MARKER, OutDir};
 pub use own_books_out::{OWN_BOOKS_METHOD, OwnBooks, OwnNet, holdings_csv, own_books_terminal};
 pub use panel_csv::write_panel;
 pub use plan::{plan_csv, plan_json, plan_terminal};
+pub use provenance::{Made, command_line, utc_date};
 pub use stress::{stress_csv, stress_json, stress_terminal};
 pub use summary::{CAUTION, Summary, summary_json};
 pub use sweep::{SweepPoint, sweep_csv, sweep_json, sweep_terminal};

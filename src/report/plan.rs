@@ -3,6 +3,7 @@
 use super::records::{RECORD_HEADER, RULES, document, record_cells};
 use super::summary::CAUTION;
 use super::terminal::period_word;
+use super::text::{pct, share_ci};
 use crate::plan::PlanResult;
 use crate::scenario::Scenario;
 use crate::study::RuleStats;
@@ -38,29 +39,37 @@ pub fn plan_terminal(scenario: &Scenario, plan: &PlanResult) -> String {
         "  {} assets; {} paths at every history (the same paths cut shorter); seed {}\n",
         scenario.assets, plan.paths, plan.seed
     );
-    let _ =
-        writeln!(out, "Within ±1 of the best choice (± one Monte Carlo standard error), and the peak rule's regret");
     let _ = writeln!(
         out,
-        "  {:>16}  {:>13}  {:>13}  {:>13}  {:>13}  {:>13}",
-        format!("history ({unit}s)"),
+        "Within ±1 of the best choice (share of histories, 95% Wilson interval), and the peak rule's regret"
+    );
+    let _ = writeln!(
+        out,
+        "  {:>11} {:<14} {:<14} {:<14} {:<14} {:>6}\n  {:>11} {:<14} {:<14} {:<14} {:<14} {:>6}",
+        "history",
         "peak",
         "formula",
         "fitted",
-        "net_ir",
-        "peak regret"
+        "net IR",
+        "peak",
+        format!("({unit}s)"),
+        "",
+        "",
+        "",
+        "",
+        "regret"
     );
-    let cell = |s: &RuleStats| format!("{:.1}% ± {:.1}", 100.0 * s.near_hit_rate, 100.0 * s.near_hit_rate_se);
+    let cell = |s: &RuleStats| share_ci(s.near_hit_rate, s.near_hit_rate_ci);
     for p in &plan.grid {
         let _ = writeln!(
             out,
-            "  {:>16}  {:>13}  {:>13}  {:>13}  {:>13}  {:>13}",
-            format!("{} ({:.1} y)", p.history, years(p.history)),
+            "  {:>11} {:<14} {:<14} {:<14} {:<14} {:>6}",
+            format!("{} ({:.1}y)", p.history, years(p.history)),
             cell(&p.rules.peak),
             cell(&p.rules.formula),
             cell(&p.rules.fitted),
             cell(&p.rules.net_ir),
-            format!("{:.2}% of best", 100.0 * p.rules.peak.regret_rel_mean)
+            pct(p.rules.peak.regret_rel_mean)
         );
     }
     match &plan.answer {

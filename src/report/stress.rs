@@ -3,6 +3,7 @@
 use super::records::document;
 use super::summary::CAUTION;
 use super::terminal::period_word;
+use super::text::{TABLE_WIDTH, fixed, pct};
 use crate::scenario::Scenario;
 use crate::stress::{RegretMatrix, StressResult};
 use std::fmt::Write;
@@ -36,21 +37,35 @@ pub fn stress_csv(stress: &StressResult) -> Vec<u8> {
     w.into_inner().expect("in-memory CSV")
 }
 
+/// Columns of the regret matrix that fit in [`TABLE_WIDTH`] beside the row names.
+fn column_blocks(n: usize, name_width: usize, cell: usize) -> Vec<std::ops::Range<usize>> {
+    let room = TABLE_WIDTH.saturating_sub(2 + name_width + 2 + 6);
+    let per = (room / (cell + 2)).max(1);
+    (0..n).step_by(per).map(|i| i..(i + per).min(n)).collect()
+}
+
 fn matrix(out: &mut String, stress: &StressResult, m: &RegretMatrix, title: &str, unit: &str) {
     let _ = writeln!(out, "\n{title}");
     let names: Vec<&str> = stress.curves.iter().map(|c| c.name.as_str()).collect();
-    let width = names.iter().map(|n| n.len()).max().unwrap_or(8).max(8);
-    let mut head = format!("  {:<w$}  {:>6}", "chosen under", "choice", w = width + 2);
-    for n in &names {
-        let _ = write!(head, "  {n:>w$}", w = width);
-    }
-    let _ = writeln!(out, "{head}");
-    for (i, row) in m.regret_rel.iter().enumerate() {
-        let mut line = format!("  {:<w$}  {:>6}", names[i], m.chosen[i], w = width + 2);
-        for r in row {
-            let _ = write!(line, "  {:>w$}", format!("{:.1}%", 100.0 * r), w = width);
+    let width = names.iter().map(|n| n.chars().count()).max().unwrap_or(8).max(8);
+    let first = width.max("chosen under".len());
+    // Many alternatives: the true-curve columns come in blocks that fit.
+    for cols in column_blocks(names.len(), first, width) {
+        let mut head = format!("  {:<first$}  {:>6}", "chosen under", "choice");
+        for n in &names[cols.clone()] {
+            let _ = write!(head, "  {n:>width$}");
         }
-        let _ = writeln!(out, "{line}");
+        let _ = writeln!(out, "{head}");
+        for (i, row) in m.regret_rel.iter().enumerate() {
+            let mut line = format!("  {:<first$}  {:>6}", names[i], m.chosen[i]);
+            for r in &row[cols.clone()] {
+                let _ = write!(line, "  {:>width$}", pct(*r));
+            }
+            let _ = writeln!(out, "{line}");
+        }
+        if cols.end < names.len() {
+            out.push('\n');
+        }
     }
     let assumed_worst = m.regret_rel[0].iter().copied().fold(0.0, f64::max);
     let _ = writeln!(
@@ -70,18 +85,25 @@ pub fn stress_terminal(scenario: &Scenario, stress: &StressResult) -> String {
     let _ = writeln!(out, "lagfold stress · {}", scenario.name);
     let _ = writeln!(
         out,
-        "  True curves and their optima (horizon by horizon IC, holding by net IR at {} bps):",
+        "  True curves and their optima (horizon by horizon IC, holding by net IR at {} bps)",
         stress.cost_bps
     );
+    let width = stress.curves.iter().map(|c| c.name.chars().count()).max().unwrap_or(8).max(8);
+    let _ = writeln!(
+        out,
+        "  {:<width$}  {:>7} {:>7} {:>7} {:>7}  {:>7}  {:>7}\n  {:<width$}  {:>7} {:>7} {:>7} {:>7}  {:>7}  {:>7}",
+        "curve", "IC at 1", "3", "6", "12", "best", "best", "", "", "", "", "", "horizon", "holding"
+    );
     for c in &stress.curves {
+        let ic = |i: usize| c.lagged_ic.get(i).map_or_else(|| "–".to_string(), |&v| fixed(v, 4));
         let _ = writeln!(
             out,
-            "  {:<12}  IC at lags 1/3/6/12: {:>7.4} {:>7.4} {:>7.4} {:>7.4}   best horizon {:>3}, best holding {:>3}",
+            "  {:<width$}  {:>7} {:>7} {:>7} {:>7}  {:>7}  {:>7}",
             c.name,
-            c.lagged_ic[0],
-            c.lagged_ic.get(2).copied().unwrap_or(f64::NAN),
-            c.lagged_ic.get(5).copied().unwrap_or(f64::NAN),
-            c.lagged_ic.get(11).copied().unwrap_or(f64::NAN),
+            ic(0),
+            ic(2),
+            ic(5),
+            ic(11),
             c.best_horizon,
             c.best_holding
         );

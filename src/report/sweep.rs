@@ -3,6 +3,7 @@
 
 use super::records::{RECORD_HEADER, RULES, document, record_cells};
 use super::summary::CAUTION;
+use super::text::{TABLE_WIDTH, share_ci};
 use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
 use crate::scenario::sweep::Point;
@@ -70,25 +71,38 @@ pub fn sweep_csv(rows: &[SweepPoint]) -> Vec<u8> {
     w.into_inner().expect("in-memory CSV")
 }
 
-/// The terminal table: one line per grid point.
+/// The terminal table: one line per grid point, or two (the point, then its
+/// figures) when the grid values are too long to share a line in 80 columns.
 pub fn sweep_terminal(rows: &[SweepPoint]) -> String {
-    let mut out = String::from("lagfold sweep: within ±1 of the best choice (± one Monte Carlo standard error)\n");
+    let mut out =
+        String::from("lagfold sweep: within ±1 of the best choice (share of histories, 95% Wilson interval)\n");
     let label = |r: &SweepPoint| r.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
     let width = rows.iter().map(|r| label(r).chars().count()).max().unwrap_or(10).max(10);
+    let figures = 5 + 2 + 4 * 15;
+    let one_line = 2 + width + 2 + figures <= TABLE_WIDTH;
+    let lead = if one_line { width + 2 } else { 0 };
     let _ = writeln!(
         out,
-        "  {:<width$}  {:>5}  {:>13}  {:>13}  {:>13}  {:>13}",
-        "grid point", "best", "peak", "formula", "fitted", "net_ir"
+        "  {:<lead$}{:>5}  {:<14} {:<14} {:<14} {:<14}",
+        if one_line { "grid point" } else { "" },
+        "best",
+        "peak",
+        "formula",
+        "fitted",
+        "net IR"
     );
     let cell = |r: &SweepPoint, rule| {
         let s = r.rules.get(rule);
-        format!("{:.1}% ± {:.1}", 100.0 * s.near_hit_rate, 100.0 * s.near_hit_rate_se)
+        share_ci(s.near_hit_rate, s.near_hit_rate_ci)
     };
     for r in rows {
+        if !one_line {
+            let _ = writeln!(out, "  {}", label(r));
+        }
         let _ = writeln!(
             out,
-            "  {:<width$}  {:>5}  {:>13}  {:>13}  {:>13}  {:>13}",
-            label(r),
+            "  {:<lead$}{:>5}  {:<14} {:<14} {:<14} {:<14}",
+            if one_line { label(r) } else { String::new() },
             r.best_horizon,
             cell(r, Rule::Peak),
             cell(r, Rule::Formula),

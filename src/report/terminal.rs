@@ -2,6 +2,7 @@
 //! and one plain sentence.
 
 use super::summary::CAUTION;
+use super::text::{pct, pct_se, share_ci};
 use crate::portfolio::PortfolioTruth;
 use crate::study::{RuleStats, Setup, StudyResult};
 use std::fmt::Write;
@@ -55,23 +56,6 @@ fn mark(best: bool, near: bool) -> &'static str {
     }
 }
 
-/// `100·x` to one decimal without a negative zero (`-0.0` prints as `0.0`).
-fn per_cent(x: f64) -> f64 {
-    let v = 100.0 * x;
-    if v.abs() < 0.05 { 0.0 } else { v }
-}
-
-fn pct(x: f64) -> String {
-    format!("{:.1}%", per_cent(x))
-}
-
-fn pct_se(x: f64, se: Option<f64>) -> String {
-    match se {
-        Some(s) => format!("{:>5.1}% ± {:.1}", per_cent(x), per_cent(s)),
-        None => format!("{:>5.1}%", per_cent(x)),
-    }
-}
-
 /// Rows of the true-curve table: all horizons up to 24, else a selection.
 fn shown_horizons(l: usize, best: usize) -> Vec<usize> {
     if l <= 24 {
@@ -92,15 +76,18 @@ fn rule_row(out: &mut String, name: &str, r: &RuleStats) {
     let q = &r.choice_quantiles;
     let _ = writeln!(
         out,
-        "  {name:<8} {:>14}  {:>14}  {:>14}  {:>14}   {:>3} – {:>3} – {:>3}",
-        pct_se(r.hit_rate, Some(r.hit_rate_se)),
-        pct_se(r.near_hit_rate, Some(r.near_hit_rate_se)),
-        pct_se(r.near_best_rate, Some(r.near_best_rate_se)),
+        "  {name:<8}  {:<14} {:<14} {:<14} {:<12} {}",
+        share_ci(r.hit_rate, r.hit_rate_ci),
+        share_ci(r.near_hit_rate, r.near_hit_rate_ci),
+        share_ci(r.near_best_rate, r.near_best_rate_ci),
         pct_se(r.regret_rel_mean, r.regret_rel_mean_se),
-        q[0].round() as i64,
-        q[2].round() as i64,
-        q[4].round() as i64,
+        choice_range(q),
     );
+}
+
+/// "5–7–14": the 5th, 50th and 95th percentiles of the chosen horizon (whole numbers).
+fn choice_range(q: &[f64]) -> String {
+    format!("{}–{}–{}", q[0].round() as i64, q[2].round() as i64, q[4].round() as i64)
 }
 
 /// The holding-period section: both books by holding length, the net
@@ -140,32 +127,43 @@ fn holding_section(out: &mut String, setup: &Setup, p: &PortfolioTruth, study: &
     let r = &study.rules.net_ir;
     let _ = writeln!(
         out,
-        "  Measured net optimum: exact hit {}, within ±1 {}, regret {:.3} IR ({:.1} bps a year), chosen 5–50–95%: {:.0} – {:.0} – {:.0}",
-        pct_se(r.hit_rate, Some(r.hit_rate_se)).trim(),
-        pct_se(r.near_hit_rate, Some(r.near_hit_rate_se)).trim(),
+        "  Measured net optimum: exact hit {}, within ±1 {}, regret {:.3} IR ({:.1} bps a year), chosen 5–50–95%: {}",
+        share_ci(r.hit_rate, r.hit_rate_ci).trim(),
+        share_ci(r.near_hit_rate, r.near_hit_rate_ci).trim(),
         r.regret_mean,
         r.regret_bps_year_mean.unwrap_or(f64::NAN),
-        r.choice_quantiles[0],
-        r.choice_quantiles[2],
-        r.choice_quantiles[4]
+        choice_range(&r.choice_quantiles)
     );
     if !study.cost_sweep.is_empty() {
         let _ = writeln!(out, "\nNet optimum by cost (truth from the reference; measured over the study's histories)");
         let _ = writeln!(
             out,
-            "  {:>8}  {:>9}  {:>11}  {:>14}  {:>14}  {:>7}  {:>11}",
-            "cost bps", "true best", "true net IR", "exact hit", "within ±1", "median", "regret bps"
+            "  {:>5}  {:>5}  {:>6}  {:<14} {:<14} {:>6}  {:>7}\n  {:>5}  {:>5}  {:>6}  {:<14} {:<14} {:>6}  {:>7}",
+            "cost",
+            "true",
+            "true",
+            "exact hit",
+            "within ±1",
+            "median",
+            "regret",
+            "bps",
+            "best",
+            "net IR",
+            "",
+            "",
+            "choice",
+            "bps/yr"
         );
         for row in &study.cost_sweep {
             let m = &row.measured;
             let _ = writeln!(
                 out,
-                "  {:>8}  {:>9}  {:>11.2}  {:>14}  {:>14}  {:>7.0}  {:>11.1}",
+                "  {:>5}  {:>5}  {:>6.2}  {:<14} {:<14} {:>6.0}  {:>7.1}",
                 row.cost_bps,
                 row.true_best_holding,
                 row.true_net_ir,
-                pct_se(m.hit_rate, Some(m.hit_rate_se)),
-                pct_se(m.near_hit_rate, Some(m.near_hit_rate_se)),
+                share_ci(m.hit_rate, m.hit_rate_ci),
+                share_ci(m.near_hit_rate, m.near_hit_rate_ci),
                 m.choice_quantiles[2],
                 m.regret_bps_year_mean.unwrap_or(f64::NAN)
             );
@@ -222,14 +220,16 @@ pub fn terminal_summary(setup: &Setup, portfolio: &PortfolioTruth, study: &Study
     }
     let _ = writeln!(
         out,
-        "\nHow each rule picks the horizon ({} simulated histories; ± one Monte Carlo standard error)",
+        "\nHow each rule picks the horizon ({} simulated histories; shares with their 95% Wilson interval, \
+         regret ± one Monte Carlo standard error)",
         study.paths
     );
-    let _ = writeln!(
-        out,
-        "  {:<8} {:>14}  {:>14}  {:>14}  {:>14}   {:>15}",
-        "rule", "exact hit", "within ±1", "near-best set", "regret % best", "chosen 5–50–95%"
-    );
+    for [a, b, c, d, e, f] in [
+        ["rule", "exact hit", "within ±1", "near-best set", "regret", "chosen"],
+        ["", "", "", "", "% of best", "5–50–95%"],
+    ] {
+        let _ = writeln!(out, "  {a:<8}  {b:<14} {c:<14} {d:<14} {e:<12} {f}");
+    }
     rule_row(&mut out, "peak", &study.rules.peak);
     rule_row(&mut out, "formula", &study.rules.formula);
     rule_row(&mut out, "fitted", &study.rules.fitted);

@@ -16,14 +16,20 @@ pub struct RuleStats {
     pub hit_rate: f64,
     /// Its Monte Carlo standard error.
     pub hit_rate_se: f64,
+    /// Its 95 % Wilson interval.
+    pub hit_rate_ci: [f64; 2],
     /// `P(|n̂ − n*| ≤ 1)`.
     pub near_hit_rate: f64,
     /// Its Monte Carlo standard error.
     pub near_hit_rate_se: f64,
+    /// Its 95 % Wilson interval.
+    pub near_hit_rate_ci: [f64; 2],
     /// `P(n̂ in the near-best set)`.
     pub near_best_rate: f64,
     /// Its Monte Carlo standard error.
     pub near_best_rate_se: f64,
+    /// Its 95 % Wilson interval.
+    pub near_best_rate_ci: [f64; 2],
     /// Mean regret `H(n*) − H(n̂)` in IC units.
     pub regret_mean: f64,
     /// Its Monte Carlo standard error.
@@ -124,10 +130,13 @@ pub fn rule_stats(
         description: description.to_string(),
         hit_rate: h.rate,
         hit_rate_se: h.se,
+        hit_rate_ci: h.ci,
         near_hit_rate: nh.rate,
         near_hit_rate_se: nh.se,
+        near_hit_rate_ci: nh.ci,
         near_best_rate: nb.rate,
         near_best_rate_se: nb.se,
+        near_best_rate_ci: nb.ci,
         regret_mean: regret.mean(),
         regret_mean_se: regret.se(),
         regret_rel_mean: rel.mean(),

@@ -86,10 +86,9 @@ fn chosen_chart(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult, 
         let r = study.rules.get(rule);
         Panel::Xy(XyPanel {
             heading: format!(
-                "{}: exact hit {:.1}% ± {:.1}%",
+                "{}: exact hit {}",
                 rule_title(rule),
-                100.0 * r.hit_rate,
-                100.0 * r.hit_rate_se
+                crate::report::text::share_ci(r.hit_rate, r.hit_rate_ci).trim()
             ),
             x_label: format!("chosen {what} ({unit}s)"),
             y_label: "share of histories".into(),

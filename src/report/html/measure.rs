@@ -1,7 +1,7 @@
 //! The report of `measure`; figures point into `measure.json`.
 
 use super::study::rule_name;
-use super::{ErrRow, Fmt, Page, Table, fig, fig_opt, int};
+use super::{ErrRow, Fmt, Page, Table, fig, fig_opt, int, share_row};
 use crate::measure::rules::Rule;
 use crate::report::MeasureResult;
 
@@ -88,18 +88,22 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
     }
     if let Some(c) = &m.calibrated_study {
         for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
-            errors.push(ErrRow::new(
+            errors.push(share_row(
                 format!("calibrated study, {}: within one period", rule_name(rule)),
-                fig(&format!("/calibrated_study/near_hit_rate/{i}"), c.near_hit_rate[i], Fmt::Pct(1)),
-                fig(&format!("/calibrated_study/near_hit_rate_se/{i}"), c.near_hit_rate_se[i], Fmt::Pct(2)),
+                &format!("/calibrated_study/near_hit_rate/{i}"),
+                &format!("/calibrated_study/near_hit_rate_ci/{i}"),
+                c.near_hit_rate[i],
+                c.near_hit_rate_ci[i],
             ));
         }
     }
     for (i, n) in m.calibrated_study.iter().flat_map(|c| c.net.iter()).enumerate() {
-        errors.push(ErrRow::new(
+        errors.push(share_row(
             format!("calibrated study, net-IR rule at {} bps: exact hit", n.cost_bps),
-            fig(&format!("/calibrated_study/net/{i}/hit_rate"), n.hit_rate, Fmt::Pct(1)),
-            fig(&format!("/calibrated_study/net/{i}/hit_rate_se"), n.hit_rate_se, Fmt::Pct(2)),
+            &format!("/calibrated_study/net/{i}/hit_rate"),
+            &format!("/calibrated_study/net/{i}/hit_rate_ci"),
+            n.hit_rate,
+            n.hit_rate_ci,
         ));
     }
     let mut methods = vec![

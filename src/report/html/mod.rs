@@ -17,6 +17,7 @@ pub use stress::stress_page;
 pub use study::study_page;
 pub use sweep::{sweep_page, sweep_parameters};
 
+use super::provenance::Made;
 use super::summary::CAUTION;
 use std::fmt::Write;
 
@@ -61,7 +62,8 @@ pub struct ErrRow {
     pub what: String,
     /// The estimate (a [`fig`]).
     pub value: String,
-    /// Its Monte Carlo standard error (a [`fig`]), or why there is none.
+    /// Its Monte Carlo error: a standard error or, for a share, a 95 %
+    /// interval (made of [`fig`]s), or why there is none.
     pub se: String,
 }
 
@@ -70,6 +72,20 @@ impl ErrRow {
     pub fn new(what: impl Into<String>, value: String, se: String) -> Self {
         Self { what: what.into(), value, se }
     }
+}
+
+/// The error-table row of a share of histories: the share at JSON pointer
+/// `rate_at` and its 95 % Wilson interval at `ci_at`.
+pub fn share_row(what: impl Into<String>, rate_at: &str, ci_at: &str, rate: f64, ci: [f64; 2]) -> ErrRow {
+    ErrRow::new(
+        what,
+        fig(rate_at, rate, Fmt::Pct(1)),
+        format!(
+            "{} – {} (95% Wilson interval)",
+            fig(&format!("{ci_at}/0"), ci[0], Fmt::Pct(1)),
+            fig(&format!("{ci_at}/1"), ci[1], Fmt::Pct(1))
+        ),
+    )
 }
 
 /// A plain table (header and rows of HTML cells).
@@ -121,18 +137,21 @@ th,td{padding:.25rem .6rem;border-bottom:1px solid #ddd;text-align:left;vertical
 @media (max-width:700px){body{padding:.6rem}figure{overflow-x:auto}figure svg{width:680px;max-width:none}}\
 @media print{body{max-width:none;font-size:10pt}h2{break-after:avoid}figure svg{max-height:118mm;width:auto;max-width:100%;margin:0 auto}.lead{border:1px solid #0072b2}}";
 
-/// The whole page.
-pub fn render(page: &Page) -> Vec<u8> {
+/// The whole page, with the date, version and command line that made it.
+pub fn render(page: &Page, made: &Made) -> Vec<u8> {
     let mut h = String::with_capacity(64 * 1024 + page.charts.iter().map(|c| c.2.len()).sum::<usize>());
     let _ = write!(
         h,
         "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n\
          <meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n\
          <title>{}</title>\n<style>{STYLE}</style>\n</head>\n<body>\n<header><h1>{}</h1>\
-         <p class=\"muted\">lagfold {} · simulations under stated assumptions, not investment advice</p></header>\n",
+         <p class=\"muted\" id=\"made\">Made {} by lagfold {} with <code>{}</code> · simulations under \
+         stated assumptions, not investment advice</p></header>\n",
         esc(&page.title),
         esc(&page.title),
-        env!("CARGO_PKG_VERSION")
+        made.date,
+        made.version,
+        esc(&made.command)
     );
     let _ = write!(
         h,
@@ -162,7 +181,7 @@ pub fn render(page: &Page) -> Vec<u8> {
     let _ = writeln!(h, "<p>{}</p>", page.errors_note);
     let rows: Vec<Vec<String>> =
         page.errors.iter().map(|r| vec![esc(&r.what), r.value.clone(), r.se.clone()]).collect();
-    h.push_str(&table(&["figure".into(), "estimate".into(), "Monte Carlo standard error".into()], &rows));
+    h.push_str(&table(&["figure".into(), "estimate".into(), "Monte Carlo error".into()], &rows));
     h.push_str("</section>\n<section id=\"methods\">\n<h2>Methods and sources</h2>\n<ul>\n");
     for (what, how) in &page.methods {
         let _ = writeln!(h, "<li><strong>{}.</strong> {}</li>", esc(what), esc(how));

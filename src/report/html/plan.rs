@@ -1,7 +1,7 @@
 //! The report of `plan`; figures point into `plan.json`.
 
 use super::study::{ERRORS_NOTE, rule_name, study_methods};
-use super::{ErrRow, Fmt, Page, fig, int};
+use super::{ErrRow, Fmt, Page, fig, int, share_row};
 use crate::plan::{Goal, Metric, PlanResult};
 use crate::report::period_word;
 use crate::report::records::RULES;
@@ -77,11 +77,11 @@ pub fn plan_page(scenario: &Scenario, plan: &PlanResult, goal: &Goal, charts: Ve
             for &m in metrics.iter().chain(&[Metric::Regret]) {
                 let (x, se) = m.of(r);
                 let base = format!("/grid/{i}/rules/{}/{}", rule.name(), m.field());
-                errors.push(ErrRow::new(
-                    format!("{} {unit}s, {}: {}", p.history, rule_name(rule), m.describe()),
-                    fig(&base, x, Fmt::Pct(1)),
-                    fig(&format!("{base}_se"), se, Fmt::Pct(2)),
-                ));
+                let what = format!("{} {unit}s, {}: {}", p.history, rule_name(rule), m.describe());
+                errors.push(match m.ci(r) {
+                    Some(ci) => share_row(what, &base, &format!("{base}_ci"), x, ci),
+                    None => ErrRow::new(what, fig(&base, x, Fmt::Pct(1)), fig(&format!("{base}_se"), se, Fmt::Pct(2))),
+                });
             }
         }
     }

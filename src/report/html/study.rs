@@ -1,6 +1,6 @@
 //! The report of a study (`run`, `demo`); figures point into `summary.json`.
 
-use super::{ErrRow, Fmt, Page, fig, fig_opt, int};
+use super::{ErrRow, Fmt, Page, fig, fig_opt, int, share_row};
 use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
 use crate::report::charts::units;
@@ -42,8 +42,8 @@ pub fn study_methods() -> Vec<(String, String)> {
         (
             "Study figures",
             "Exact hit, within one period, in the near-best set, regret (the share of the best value given up) and \
-             the winner's curse (compare Bailey and López de Prado, 2014). Proportions carry the binomial standard \
-             error sqrt(p(1 - p)/paths); means carry sd/sqrt(paths). Bands are quantiles over histories (Hyndman and \
+             the winner's curse (compare Bailey and López de Prado, 2014). Proportions carry a 95% Wilson (1927) score \
+             interval, which stays inside [0, 1] and is not a point at 0 or 100%; means carry sd/sqrt(paths). Bands are quantiles over histories (Hyndman and \
              Fan, 1996, type 7).",
         ),
         (
@@ -60,20 +60,26 @@ pub fn study_methods() -> Vec<(String, String)> {
 pub fn rule_error_rows(name: &str, r: &RuleStats, at: &str) -> Vec<ErrRow> {
     let opt = |p: &str, v: Option<f64>, f: Fmt| fig_opt(p, v, f, "n/a (one path)");
     let mut rows = vec![
-        ErrRow::new(
+        share_row(
             format!("{name}: exact hit rate"),
-            fig(&format!("{at}/hit_rate"), r.hit_rate, Fmt::Pct(1)),
-            fig(&format!("{at}/hit_rate_se"), r.hit_rate_se, Fmt::Pct(2)),
+            &format!("{at}/hit_rate"),
+            &format!("{at}/hit_rate_ci"),
+            r.hit_rate,
+            r.hit_rate_ci,
         ),
-        ErrRow::new(
+        share_row(
             format!("{name}: within one period"),
-            fig(&format!("{at}/near_hit_rate"), r.near_hit_rate, Fmt::Pct(1)),
-            fig(&format!("{at}/near_hit_rate_se"), r.near_hit_rate_se, Fmt::Pct(2)),
+            &format!("{at}/near_hit_rate"),
+            &format!("{at}/near_hit_rate_ci"),
+            r.near_hit_rate,
+            r.near_hit_rate_ci,
         ),
-        ErrRow::new(
+        share_row(
             format!("{name}: in the near-best set"),
-            fig(&format!("{at}/near_best_rate"), r.near_best_rate, Fmt::Pct(1)),
-            fig(&format!("{at}/near_best_rate_se"), r.near_best_rate_se, Fmt::Pct(2)),
+            &format!("{at}/near_best_rate"),
+            &format!("{at}/near_best_rate_ci"),
+            r.near_best_rate,
+            r.near_best_rate_ci,
         ),
         ErrRow::new(
             format!("{name}: mean regret (share of best)"),
