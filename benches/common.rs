@@ -7,8 +7,14 @@ use std::time::Instant;
 
 /// The default preset at `N = 1000, T = 120, L = 24` with `paths` paths.
 pub fn setup(paths: usize) -> Setup {
-    let ov =
-        Overrides { assets: Some(1000), history: Some(120), horizons: Some(24), paths: Some(paths), seed: Some(7) };
+    let ov = Overrides {
+        assets: Some(1000),
+        history: Some(120),
+        horizons: Some(24),
+        paths: Some(paths),
+        seed: Some(7),
+        target_vol: None,
+    };
     let s = scenario::load(presets::text(presets::DEFAULT).unwrap(), "bench", "bench", &ov).unwrap();
     Setup::new(s).unwrap()
 }

@@ -13,7 +13,14 @@ use std::hint::black_box;
 use std::time::Instant;
 
 fn benches(c: &mut Criterion) {
-    let ov = Overrides { assets: Some(1000), history: Some(360), horizons: Some(24), paths: Some(200), seed: Some(7) };
+    let ov = Overrides {
+        assets: Some(1000),
+        history: Some(360),
+        horizons: Some(24),
+        paths: Some(200),
+        seed: Some(7),
+        target_vol: None,
+    };
     let s = scenario::load(presets::text(presets::DEFAULT).unwrap(), "bench", "bench", &ov).unwrap();
     let setup = Setup::new(s).unwrap();
     let truth = PortfolioTruth::compute(&setup, 1, &|_| {});

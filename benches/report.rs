@@ -12,7 +12,8 @@ use std::hint::black_box;
 
 fn draw(setup: &study::Setup, truth: &PortfolioTruth, result: &study::StudyResult) -> usize {
     let set = ChartSet::render(&report::study_charts(setup, truth, result)).expect("charts draw");
-    let page = report::html::study_page(setup, truth, result, set.inline);
+    let story = report::Study { setup, portfolio: truth, study: result, more: None };
+    let page = report::html::study_page(&story, set.inline);
     set.files.len() + report::html::render(&page, &report::Made::now()).len()
 }
 

@@ -63,8 +63,11 @@ fn check_report(dir: &Path, json: &str, charts: usize) -> Html {
     let text = std::fs::read_to_string(dir.join("report.html")).unwrap();
     let page = Html::parse_document(&text);
     assert!(page.errors.is_empty(), "HTML parse errors: {:?}", page.errors);
-    for id in ["summary", "charts", "parameters", "mc-error", "methods", "cautions"] {
+    for id in ["summary", "charts", "appendix", "cautions"] {
         assert_eq!(page.select(&sel(&format!("section#{id} h2"))).count(), 1, "section {id}");
+    }
+    for id in ["parameters", "mc-error", "methods"] {
+        assert_eq!(page.select(&sel(&format!("section#appendix div#{id} h3"))).count(), 1, "appendix part {id}");
     }
     for bad in ["http://", "https://", "url(", "@import", "<script", "<link", "<img", "<iframe", " src="] {
         assert!(!text.contains(bad), "report.html contains `{bad}`");

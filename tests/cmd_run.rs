@@ -22,7 +22,7 @@ fn demo_writes_the_summary_and_tables_and_says_it_plainly() {
         "True optimal horizon",
         "exact hit",
         "within ±1",
-        "In plain words",
+        "Recommendation",
         "not investment advice",
         "peak",
         "formula",
@@ -250,4 +250,58 @@ fn presets_are_listed_and_print_as_valid_scenarios() {
         lagfold::study::Setup::new(s).unwrap();
     }
     assert!(text.contains("(demo)"));
+}
+
+#[test]
+fn regret_in_bps_follows_the_target_volatility_and_rules_are_ranked_by_paired_differences() {
+    let tmp = tempfile::tempdir().unwrap();
+    let run = |vol: &str, dir: &str| {
+        lagfold()
+            .args(["run", "monthly-steady", "--paths", "60", "--assets", "150", "--history", "60", "--horizons", "8"])
+            .args(["--target-vol", vol, "-q", "--out"])
+            .arg(tmp.path().join(dir))
+            .assert()
+            .success();
+        summary(&tmp.path().join(dir))
+    };
+    let (four, eight) = (run("0.04", "four"), run("0.08", "eight"));
+    let (a, b) = (&four["study"]["rules"]["net_ir"], &eight["study"]["rules"]["net_ir"]);
+    let f = |v: &Value, k: &str| v[k].as_f64().unwrap_or_else(|| panic!("{k}"));
+    // bps a year = IR given up × target volatility × 10^4 (Grinold and Kahn, 2000): exact, so 1e-9.
+    assert!((f(a, "regret_bps_year_mean") - f(a, "regret_mean") * 0.04 * 1e4).abs() < 1e-9);
+    assert!((f(b, "regret_bps_year_mean") - 2.0 * f(a, "regret_bps_year_mean")).abs() < 1e-9);
+    assert!((f(a, "regret_bps_year_ref_se") - f(a, "regret_ref_se") * 400.0).abs() < 1e-9);
+    assert_eq!(four["scenario"]["portfolio"]["target_vol"], 0.04);
+    // The reference error is that of a mean over 1,000 reference histories: positive, and small
+    // beside the regret itself.
+    assert!(f(a, "regret_ref_se") > 0.0 && f(a, "regret_ref_se") < f(a, "regret_mean"));
+    // Paired differences: the mean of path-by-path differences is the difference of the means.
+    let rules = &four["study"]["rules"];
+    let diffs = four["study"]["ranking"]["differences"].as_array().unwrap();
+    assert_eq!(diffs.len(), 3);
+    for d in diffs {
+        let (x, y) = (d["a"].as_str().unwrap(), d["b"].as_str().unwrap());
+        let want = f(&rules[x], "regret_rel_mean") - f(&rules[y], "regret_rel_mean");
+        assert!((f(d, "mean") - want).abs() < 1e-12, "{x} − {y}");
+    }
+    if let Some(best) = four["study"]["ranking"]["best"].as_str() {
+        for d in diffs {
+            let sign = if d["a"] == best {
+                1.0
+            } else if d["b"] == best {
+                -1.0
+            } else {
+                continue;
+            };
+            assert!(sign * f(d, "mean") < -1.96 * f(d, "se"), "{best} is named best without a paired difference");
+        }
+    }
+    // The true best holding is among those the reference cannot tell from it.
+    let tied: Vec<u64> = four["truth"]["portfolio"]["linear"]["tied_with_best"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|v| v.as_u64().unwrap())
+        .collect();
+    assert!(tied.contains(&four["truth"]["best_holding"].as_u64().unwrap()));
 }

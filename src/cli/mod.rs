@@ -60,6 +60,11 @@ pub(crate) fn whole(s: &str) -> Result<usize, String> {
     })
 }
 
+/// A number from the command line (its range is checked with the scenario).
+pub(crate) fn number(s: &str) -> Result<f64, String> {
+    s.trim().parse::<f64>().map_err(|_| format!("`{}` is not a number; use a decimal such as 0.04", s.trim()))
+}
+
 /// A seed: a whole number from 0 to 18446744073709551615 (2^64 − 1).
 pub(crate) fn seed(s: &str) -> Result<u64, String> {
     s.trim()

@@ -33,6 +33,10 @@ pub struct StudyArgs {
     /// scenario's cost; several add a table of the net optimum at each.
     #[arg(long, value_delimiter = ',', num_args = 1..)]
     pub cost_bps: Vec<f64>,
+    /// The book's annual volatility as a decimal (default 0.04 = 4 %): every
+    /// basis-point figure is scaled to it.
+    #[arg(long, value_parser = super::number)]
+    pub target_vol: Option<f64>,
     /// Output folder (default: lagfold-out/<scenario name>).
     #[arg(long)]
     pub out: Option<PathBuf>,
@@ -91,6 +95,7 @@ impl StudyArgs {
             horizons: self.horizons,
             paths: self.paths,
             seed: self.seed,
+            target_vol: self.target_vol,
         }
     }
 }
@@ -248,7 +253,11 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
     let sweep = if a.cost_bps.len() > 1 { a.cost_bps.clone() } else { Vec::new() };
     let (portfolio, result) = truth_and_study(&setup, a, &sweep);
-    let summary = Summary::new(&setup, &portfolio, &result);
+    let bar = progress::bar(setup.scenario.paths.min(study::MORE_HISTORY_PATHS), a.quiet, "twice the history");
+    let more = study::more_history(&setup, &portfolio, threads(a), &|done| bar.set_position(done as u64));
+    bar.finish_and_clear();
+    let story = report::Study { setup: &setup, portfolio: &portfolio, study: &result, more: more.as_ref() };
+    let summary = Summary::new(&story);
     super::finite(&summary)?;
     let mut files = vec![
         ("summary.json".to_string(), report::summary_json(&summary)),
@@ -261,11 +270,11 @@ fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Fa
     }
     let charts = super::charts(a.no_charts, || report::study_charts(&setup, &portfolio, &result))?;
     files.extend(charts.files);
-    let page = report::html::study_page(&setup, &portfolio, &result, charts.inline);
+    let page = report::html::study_page(&story, charts.inline);
     files.push(("report.html".into(), report::html::render(&page, &report::Made::now())));
     out.commit(&files).map_err(Failure::other)?;
     if !a.quiet {
-        let mut text = report::terminal_summary(&setup, &portfolio, &result);
+        let mut text = report::terminal_summary(&story);
         text.push_str(&super::outputs_line(&out_dir, &files));
         print(&text)?;
     }

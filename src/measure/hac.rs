@@ -12,6 +12,10 @@
 //! the second term being Andrews' (1991) AR(1) plug-in bandwidth with `ρ̂`
 //! the series' first-order autocorrelation (clamped to ±0.97).
 
+/// The method in words, as reports and `summary.json` state it.
+pub const METHOD: &str = "Newey-West (Bartlett) with min(m - 1, max(2n, floor(1.1447 (alpha m)^(1/3)))) lags for \
+horizon n over m dates, the second term Andrews' (1991) AR(1) plug-in bandwidth; lagged ICs use n = 1";
+
 /// Largest first-order autocorrelation used in the bandwidth.
 const RHO_CAP: f64 = 0.97;
 

@@ -35,6 +35,12 @@ pub struct BookTruth {
     pub net_ir: Vec<f64>,
     /// Its Monte Carlo standard error (spread of per-history IRs / sqrt(paths)).
     pub net_ir_se: Vec<f64>,
+    /// Paired Monte Carlo standard error of the gap to the best holding,
+    /// `IR(best) − IR(h)`, from the same reference histories (0 at the best).
+    pub net_ir_gap_se: Vec<f64>,
+    /// Holding lengths the reference simulation cannot tell from the best:
+    /// gap below [`TIE_SES`] paired standard errors (the best included).
+    pub tied_with_best: Vec<usize>,
     /// Annualised gross information ratio.
     pub gross_ir: Vec<f64>,
     /// Mean traded notional per period (unit gross exposure).
@@ -100,10 +106,36 @@ pub fn net_ir_at(pooled: &[BookSums], per_path: &[Vec<BookSums>], c: f64, ppy: f
     (ir, se)
 }
 
+/// Standard errors within which a holding's gap to the best counts as a tie
+/// (two-sided 95 %).
+pub const TIE_SES: f64 = crate::stats::Z95;
+
+/// Paired standard errors of `IR(best) − IR(h)` at cost `c` across the
+/// reference histories (the same histories price every holding, so their
+/// common noise cancels in the gap).
+pub fn gap_se(per_path: &[Vec<BookSums>], best: usize, c: f64, ppy: f64) -> Vec<f64> {
+    let l = per_path.first().map_or(0, Vec::len);
+    (1..=l)
+        .map(|h| {
+            let mut m = Moments::default();
+            per_path.iter().for_each(|p| m.push(p[best - 1].ir(c, ppy) - p[h - 1].ir(c, ppy)));
+            if h == best { 0.0 } else { m.se().unwrap_or(f64::NAN) }
+        })
+        .collect()
+}
+
+/// Holdings whose gap to the best is within [`TIE_SES`] of its paired standard error.
+pub fn tied(net_ir: &[f64], gap_se: &[f64], best: usize) -> Vec<usize> {
+    (1..=net_ir.len()).filter(|&h| h == best || net_ir[best - 1] - net_ir[h - 1] <= TIE_SES * gap_se[h - 1]).collect()
+}
+
 fn book_truth(pooled: &[BookSums], per_path: &[Vec<BookSums>], c: f64, ppy: f64, tol: f64) -> BookTruth {
     let (net_ir, net_ir_se) = net_ir_at(pooled, per_path, c, ppy);
     let best_holding = argmax1(&net_ir);
+    let net_ir_gap_se = gap_se(per_path, best_holding, c, ppy);
     BookTruth {
+        tied_with_best: tied(&net_ir, &net_ir_gap_se, best_holding),
+        net_ir_gap_se,
         near_best_holding: near_set(&net_ir, tol),
         best_holding,
         net_ir,
@@ -158,5 +190,45 @@ impl PortfolioTruth {
             linear_sums: lin,
             linear_paths: lin_paths,
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Per-path sums whose per-period returns are `base + shift` for two books that share `base`.
+    fn sums(base: &[f64], shift: f64) -> BookSums {
+        let mut s = BookSums::default();
+        base.iter().for_each(|&g| s.push(g + shift, 0.0));
+        s
+    }
+
+    #[test]
+    fn the_gap_is_paired_over_the_same_histories() {
+        // Two books share each history's noise; the second earns a little less. Their IRs move
+        // together from history to history, so the paired error of the gap is far below the
+        // unpaired sqrt(se1² + se2²).
+        let histories: Vec<Vec<BookSums>> = (0..6)
+            .map(|p| {
+                let base: Vec<f64> = (0..50).map(|t| ((p * 50 + t) as f64 * 0.7).sin() * 0.01 + 0.002).collect();
+                vec![sums(&base, 0.0), sums(&base, -0.0005 * (1.0 + p as f64 * 0.1))]
+            })
+            .collect();
+        let se = gap_se(&histories, 1, 0.0, 12.0);
+        let mut m = Moments::default();
+        histories.iter().for_each(|h| m.push(h[0].ir(0.0, 12.0) - h[1].ir(0.0, 12.0)));
+        assert_eq!(se[0], 0.0);
+        assert!((se[1] - m.se().unwrap()).abs() < 1e-15);
+        let unpaired = (0..2)
+            .map(|k| {
+                let mut m = Moments::default();
+                histories.iter().for_each(|h| m.push(h[k].ir(0.0, 12.0)));
+                m.se().unwrap().powi(2)
+            })
+            .sum::<f64>()
+            .sqrt();
+        assert!(se[1] < 0.2 * unpaired, "paired {} vs unpaired {unpaired}", se[1]);
+        assert_eq!(tied(&[1.0, 0.99, 0.5], &[0.0, 0.01, 0.01], 1), vec![1, 2]);
     }
 }

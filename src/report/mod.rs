@@ -13,6 +13,7 @@ mod panel_csv;
 mod plan;
 mod provenance;
 pub(crate) mod records;
+mod story;
 mod stress;
 mod summary;
 mod sweep;
@@ -37,6 +38,7 @@ pub use own_books_out::{OWN_BOOKS_METHOD, OwnBooks, OwnNet, holdings_csv, own_bo
 pub use panel_csv::write_panel;
 pub use plan::{plan_csv, plan_json, plan_terminal};
 pub use provenance::{Made, command_line, utc_date};
+pub use story::Study;
 pub use stress::{stress_csv, stress_json, stress_terminal};
 pub use summary::{CAUTION, Summary, summary_json};
 pub use sweep::{SweepPoint, sweep_csv, sweep_json, sweep_terminal};

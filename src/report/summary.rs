@@ -1,8 +1,9 @@
 //! `summary.json`: the one results document that every other output agrees with.
 
+use super::story::Study;
 use crate::portfolio::PortfolioTruth;
 use crate::scenario::Scenario;
-use crate::study::{Setup, StudyResult};
+use crate::study::{MoreHistory, StudyResult};
 use crate::truth::Truth;
 use serde::Serialize;
 
@@ -44,6 +45,9 @@ pub struct Summary<'a> {
     pub truth: TruthOut<'a>,
     /// The Monte Carlo study.
     pub study: &'a StudyResult,
+    /// The study at twice the history (what more history would buy).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub more_history: Option<&'a MoreHistory>,
     /// Which horizon-IC form the study's truth is.
     pub truth_note: &'static str,
     /// The caution.
@@ -52,7 +56,8 @@ pub struct Summary<'a> {
 
 impl<'a> Summary<'a> {
     /// Bundles the results of a run.
-    pub fn new(setup: &'a Setup, portfolio: &'a PortfolioTruth, study: &'a StudyResult) -> Self {
+    pub fn new(story: &Study<'a>) -> Self {
+        let (setup, portfolio, study) = (story.setup, story.portfolio, story.study);
         let lin = &portfolio.linear;
         Self {
             tool: "lagfold",
@@ -68,6 +73,7 @@ impl<'a> Summary<'a> {
                 portfolio,
             },
             study,
+            more_history: story.more,
             truth_note: "truth.horizon_ic (the study's truth) is the expected per-date horizon IC at large N; \
 horizon_ic_pooled is sum g_k / sqrt(V_n); horizon_ic_simple is sum IC_k / sqrt(n) (Qian, Hua and Sorensen)",
             caution: CAUTION,

@@ -1,6 +1,7 @@
 //! The compact terminal summary: true curve and optimum, each rule's record,
 //! and one plain sentence.
 
+use super::story::{GLOSSARY, Study, plain, ranges, vol_pct};
 use super::summary::CAUTION;
 use super::text::{pct, pct_se, share_ci};
 use crate::portfolio::PortfolioTruth;
@@ -30,21 +31,6 @@ fn adjective(unit: &str) -> String {
 
 fn plural(n: usize, word: &str) -> String {
     if n == 1 { format!("1 {word}") } else { format!("{n} {word}s") }
-}
-
-/// "6–9" for a contiguous set, "3, 5–7" otherwise.
-fn ranges(xs: &[usize]) -> String {
-    let mut parts = Vec::new();
-    let mut i = 0;
-    while i < xs.len() {
-        let mut j = i;
-        while j + 1 < xs.len() && xs[j + 1] == xs[j] + 1 {
-            j += 1;
-        }
-        parts.push(if i == j { xs[i].to_string() } else { format!("{}–{}", xs[i], xs[j]) });
-        i = j + 1;
-    }
-    parts.join(", ")
 }
 
 /// The marker after a table row: the best choice, or one in the near-best set.
@@ -118,20 +104,27 @@ fn holding_section(out: &mut String, setup: &Setup, p: &PortfolioTruth, study: &
     }
     let _ = writeln!(
         out,
-        "  True best holding: {} (net IR {:.2} a year); near-best: {}. The horizon-IC peak says {}.",
+        "  True best holding: {} (net IR {:.2} a year); within {} of it: {}; not distinguishable from it in the \
+         reference simulation: {}. The horizon-IC peak says {}.",
         plural(lin.best_holding, unit),
         lin.net_ir[lin.best_holding - 1],
+        pct(setup.scenario.near_best_tolerance),
         ranges(&lin.near_best_holding),
+        ranges(&lin.tied_with_best),
         plural(setup.truth.best_horizon, unit)
     );
     let r = &study.rules.net_ir;
     let _ = writeln!(
         out,
-        "  Measured net optimum: exact hit {}, within ±1 {}, regret {:.3} IR ({:.1} bps a year), chosen 5–50–95%: {}",
+        "  Measured net optimum: exact hit {}, within ±1 {}, regret {:.3} ± {:.3} IR ({:.1} ± {:.1} bps a year at {} \
+         volatility; ± study and reference errors combined), chosen 5–50–95%: {}",
         share_ci(r.hit_rate, r.hit_rate_ci).trim(),
         share_ci(r.near_hit_rate, r.near_hit_rate_ci).trim(),
         r.regret_mean,
+        r.regret_mean_se.unwrap_or(0.0).hypot(r.regret_ref_se.unwrap_or(0.0)),
         r.regret_bps_year_mean.unwrap_or(f64::NAN),
+        r.regret_bps_year_total_se().unwrap_or(0.0),
+        vol_pct(setup.scenario.portfolio.target_vol),
         choice_range(&r.choice_quantiles)
     );
     if !study.cost_sweep.is_empty() {
@@ -171,8 +164,10 @@ fn holding_section(out: &mut String, setup: &Setup, p: &PortfolioTruth, study: &
     }
 }
 
-/// The whole terminal summary.
-pub fn terminal_summary(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult) -> String {
+/// The whole terminal summary: the recommendation, key figures, warnings,
+/// why the two optima differ and a glossary, then the tables as an appendix.
+pub fn terminal_summary(story: &Study) -> String {
+    let (setup, portfolio, study) = (story.setup, story.portfolio, story.study);
     let (s, t) = (&setup.scenario, &setup.truth);
     let unit = period_word(s.periods_per_year);
     let mut out = String::new();
@@ -184,15 +179,33 @@ pub fn terminal_summary(setup: &Setup, portfolio: &PortfolioTruth, study: &Study
     );
     let _ = writeln!(
         out,
-        "  {} assets × {} {} dates ({:.1} years), horizons 1–{}, {} paths, seed {}\n",
+        "  {} assets × {} {} dates ({:.1} years), horizons 1–{}, {} paths, seed {}, {} bps one-way, book at {} \
+         annual volatility\n",
         s.assets,
         s.history,
         adjective(unit),
         s.history as f64 / s.periods_per_year,
         s.horizons,
         study.paths,
-        s.seed
+        s.seed,
+        s.portfolio.cost_bps,
+        vol_pct(s.portfolio.target_vol)
     );
+    let _ = writeln!(out, "Recommendation\n  {}\n", story.recommendation(&plain));
+    let _ = writeln!(out, "Key figures");
+    for k in story.key_figures(&plain) {
+        let _ = writeln!(out, "  - {k}");
+    }
+    for w in story.warnings() {
+        let _ = writeln!(out, "\nWarning: {w}");
+    }
+    let _ =
+        writeln!(out, "\nWhy the horizon-IC peak and the best holding differ\n  {}", story.why_optima_differ(&plain));
+    let _ = writeln!(out, "\nGlossary");
+    for (term, meaning) in GLOSSARY {
+        let _ = writeln!(out, "  - {term}: {meaning}.");
+    }
+    let _ = writeln!(out, "\n── Appendix: the tables ──\n");
     let _ = writeln!(out, "True curves (expected per-date IC at large breadth; IC zero beyond lag {})", t.truncation);
     let _ =
         writeln!(out, "  {:>7}  {:>10}  {:>10}  {:>10}  {:>10}", "n", "lagged IC", "horizon IC", "pooled", "Σ IC/√n");
@@ -241,24 +254,6 @@ pub fn terminal_summary(setup: &Setup, portfolio: &PortfolioTruth, study: &Study
         pct(p.winners_curse_mean / t.h(t.best_horizon))
     );
     holding_section(&mut out, setup, portfolio, study, unit);
-    let _ = writeln!(
-        out,
-        "\nIn plain words: with {:.0} years of {} history on {} assets, the measured peak lands within one {unit} of the true best horizon ({}) in {} of histories, and on average gives up {} of the best achievable horizon IC.",
-        s.history as f64 / s.periods_per_year,
-        adjective(unit),
-        s.assets,
-        plural(t.best_horizon, unit),
-        pct(p.near_hit_rate),
-        pct(p.regret_rel_mean)
-    );
-    let (lin, r) = (&portfolio.linear, &study.rules.net_ir);
-    let _ = writeln!(
-        out,
-        "Net of {} bps trading costs the best holding period is {}; choosing it from one history's measured net IR gives up {:.1} bps a year on average.",
-        portfolio.cost_bps,
-        plural(lin.best_holding, unit),
-        r.regret_bps_year_mean.unwrap_or(f64::NAN)
-    );
     let _ = writeln!(out, "\n{CAUTION}");
     out
 }
@@ -266,12 +261,6 @@ pub fn terminal_summary(setup: &Setup, portfolio: &PortfolioTruth, study: &Study
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn ranges_compress_runs() {
-        assert_eq!(ranges(&[3, 5, 6, 7, 9]), "3, 5–7, 9");
-        assert_eq!(ranges(&[4]), "4");
-    }
 
     #[test]
     fn period_words_follow_the_frequency() {

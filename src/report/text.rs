@@ -68,11 +68,14 @@ pub fn fit(text: &str, width: usize) -> String {
             out.push_str(newline);
             continue;
         }
-        let indent = &body[..body.len() - body.trim_start().len()];
-        let room = width.saturating_sub(measure_text_width(indent)).max(10);
+        let lead = &body[..body.len() - body.trim_start().len()];
+        // A list item ("- …") hangs its continuation under its text.
+        let marker = if body.trim_start().starts_with("- ") { "- " } else { "" };
+        let words = &body.trim_start()[marker.len()..];
+        let room = width.saturating_sub(measure_text_width(lead) + marker.len()).max(10);
         let mut current = String::new();
         let mut lines = Vec::new();
-        for word in body.split_whitespace() {
+        for word in words.split_whitespace() {
             for piece in pieces(word, room) {
                 let w = measure_text_width(&current);
                 if w > 0 && w + 1 + measure_text_width(&piece) > room {
@@ -85,13 +88,14 @@ pub fn fit(text: &str, width: usize) -> String {
             }
         }
         lines.push(current);
-        for l in &lines[..lines.len() - 1] {
-            out.push_str(indent);
+        for (i, l) in lines.iter().enumerate() {
+            out.push_str(lead);
+            out.push_str(if i == 0 { marker } else { &"  "[..marker.len()] });
             out.push_str(l);
-            out.push('\n');
+            if i + 1 < lines.len() {
+                out.push('\n');
+            }
         }
-        out.push_str(indent);
-        out.push_str(&lines[lines.len() - 1]);
         out.push_str(newline);
     }
     out
@@ -127,6 +131,12 @@ mod tests {
         assert_eq!(fit(text, 200), text, "lines that fit are untouched");
         let rebuilt: Vec<&str> = got.split_whitespace().collect();
         assert_eq!(rebuilt, text.split_whitespace().collect::<Vec<_>>(), "no word is lost or split");
+    }
+
+    #[test]
+    fn list_items_hang_under_their_text() {
+        let got = fit("  - one two three four five six seven\n", 20);
+        assert_eq!(got, "  - one two three\n    four five six\n    seven\n");
     }
 
     #[test]

@@ -114,6 +114,26 @@ pub struct PortfolioSpec {
     pub quantiles: usize,
     /// Histories in the reference simulation of the true net IR (≥ 10).
     pub reference_paths: usize,
+    /// Annual volatility of the book, as a decimal (0.04 = 4 %): every
+    /// basis-point figure is the book's IR figure times it.
+    pub target_vol: f64,
+}
+
+/// Checks a target annual volatility.
+pub fn check_target_vol(key: &str, v: f64) -> Result<f64, ScenarioError> {
+    if v.is_finite() && v > 0.0 && v <= 1.0 {
+        Ok(v)
+    } else {
+        Err(out_of_range(key, v, "above 0 and at most 1 (an annual volatility as a decimal: 0.04 = 4 %)"))
+    }
+}
+
+/// A warning for a target volatility outside 0.5 %–30 % a year (common
+/// practice for a market-neutral book's tracking error; no single source).
+pub fn implausible_target_vol(key: &str, v: f64) -> Option<String> {
+    (!(0.005..=0.3).contains(&v)).then(|| {
+        format!("{key} = {v} is {:.1} % a year; books usually run at 1–10 % (is 4 % written as 4?)", 100.0 * v)
+    })
 }
 
 /// Checks a one-way cost in basis points.
@@ -138,6 +158,8 @@ pub struct Overrides {
     pub paths: Option<usize>,
     /// `--seed`.
     pub seed: Option<u64>,
+    /// `--target-vol`.
+    pub target_vol: Option<f64>,
 }
 
 impl Overrides {
@@ -154,6 +176,7 @@ impl Overrides {
         add("--horizons", self.horizons.map(|x| x.to_string()));
         add("--paths", self.paths.map(|x| x.to_string()));
         add("--seed", self.seed.map(|x| x.to_string()));
+        add("--target-vol", self.target_vol.map(|x| x.to_string()));
         v
     }
 
@@ -174,6 +197,17 @@ impl Overrides {
         if let Some(v) = self.seed {
             raw.seed = v;
         }
+        if let Some(v) = self.target_vol {
+            raw.portfolio.target_vol = v;
+        }
+    }
+}
+
+/// The scenario key an option sets: `--assets` → `assets`, `--target-vol` → `portfolio.target_vol`.
+fn option_key(flag: &str) -> String {
+    match flag {
+        "--target-vol" => "portfolio.target_vol".into(),
+        f => f.trim_start_matches('-').replace('-', "_"),
     }
 }
 
@@ -312,6 +346,7 @@ impl Scenario {
                     &format!("from 10 to {MAX_REFERENCE_PATHS} (each is one more simulated history with its books)"),
                 ));
             },
+            target_vol: check_target_vol("portfolio.target_vol", p.target_vol)?,
         };
         let mut alternatives = Vec::with_capacity(raw.stress.alternatives.len());
         for (i, a) in raw.stress.alternatives.iter().enumerate() {
@@ -409,6 +444,7 @@ impl Scenario {
             ));
         }
         out.extend(implausible_cost("portfolio.cost_bps", self.portfolio.cost_bps));
+        out.extend(implausible_target_vol("portfolio.target_vol", self.portfolio.target_vol));
         out
     }
 }
@@ -443,13 +479,13 @@ pub fn load(text: &str, origin: &str, default_name: &str, ov: &Overrides) -> Res
         // A value given on the command line is blamed on its option, not on the file's line.
         let given = ov.given();
         if let Some(key) = e.key()
-            && let Some((flag, _)) = given.iter().find(|(flag, _)| flag[2..] == *key)
+            && let Some((flag, _)) = given.iter().find(|(flag, _)| option_key(flag) == key)
         {
             return InputError::Invalid { origin: format!("option {flag}"), line: None, source: e };
         }
         // A rule between fields names the options that moved one of them.
         let said = e.to_string();
-        let involved: Vec<_> = given.iter().filter(|(flag, _)| said.contains(&flag[2..])).collect();
+        let involved: Vec<_> = given.iter().filter(|(flag, _)| said.contains(&option_key(flag))).collect();
         let mut err = locate(e, text, origin);
         if let InputError::Invalid { origin, .. } = &mut err
             && !involved.is_empty()

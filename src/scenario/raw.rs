@@ -106,6 +106,9 @@ pub struct RawPortfolio {
     /// Histories in the reference simulation of the true net IR.
     #[serde(default = "defaults::reference_paths")]
     pub reference_paths: usize,
+    /// The book's annual volatility to which every basis-point figure is scaled.
+    #[serde(default = "defaults::target_vol")]
+    pub target_vol: f64,
 }
 
 impl Default for RawPortfolio {
@@ -114,6 +117,7 @@ impl Default for RawPortfolio {
             cost_bps: defaults::cost_bps(),
             quantiles: defaults::quantiles(),
             reference_paths: defaults::reference_paths(),
+            target_vol: defaults::target_vol(),
         }
     }
 }
@@ -326,5 +330,10 @@ mod defaults {
     }
     pub fn reference_paths() -> usize {
         1000
+    }
+    /// 4 % a year, a common tracking-error budget for a market-neutral book
+    /// (common practice, no single source).
+    pub fn target_vol() -> f64 {
+        0.04
     }
 }

@@ -5,10 +5,12 @@
 
 pub mod coverage;
 mod outcomes;
+mod ranking;
 mod records;
 mod worker;
 
 pub use outcomes::{Outcomes, PathOutcome};
+pub use ranking::{HORIZON_RULES, PairedDifference, RuleRanking};
 pub use records::{RuleStats, RulesOut, Target, net_ir_rule, rule_stats};
 pub use worker::{Worker, run_in_order, simulate_all};
 
@@ -72,6 +74,8 @@ pub struct StudyResult {
     pub se_method: String,
     /// Results per rule.
     pub rules: RulesOut,
+    /// The horizon rules compared path by path.
+    pub ranking: RuleRanking,
     /// How often the fitted rule chose each family.
     pub fitted_families: BTreeMap<String, u64>,
     /// Measured mean lagged IC across paths.
@@ -104,6 +108,44 @@ pub fn run(
     result
 }
 
+/// Most histories in the study at twice the history (its figures need less
+/// precision than the main study's: they are compared, not reported alone).
+pub const MORE_HISTORY_PATHS: usize = 1000;
+
+/// What twice the history would buy: every rule's record on histories twice
+/// as long (same seed, so each path's first dates are the main study's path,
+/// at most [`MORE_HISTORY_PATHS`] of them).
+#[derive(Debug, Clone, Serialize)]
+pub struct MoreHistory {
+    /// Dates per history (twice the scenario's).
+    pub history: usize,
+    /// Histories simulated.
+    pub paths: usize,
+    /// Each rule's record at that history.
+    pub rules: RulesOut,
+}
+
+/// The study at twice the history, or `None` when such histories would pass
+/// the scenario's size limits.
+pub fn more_history(
+    setup: &Setup,
+    portfolio: &PortfolioTruth,
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> Option<MoreHistory> {
+    let mut s = setup.scenario.clone();
+    s.history *= 2;
+    s.paths = s.paths.min(MORE_HISTORY_PATHS);
+    let fits = s.assets.saturating_mul(s.history) <= crate::scenario::MAX_ASSET_DATES
+        && s.paths.saturating_mul(s.horizons) <= crate::scenario::MAX_PATH_HORIZONS;
+    if !fits {
+        return None;
+    }
+    let longer = Setup::new(s).ok()?;
+    let result = run(&longer, portfolio, &[], threads, progress);
+    Some(MoreHistory { history: longer.scenario.history, paths: result.paths, rules: result.rules })
+}
+
 /// The true and the measured net optimum at one cost.
 #[derive(Debug, Clone, Serialize)]
 pub struct SweepRow {
@@ -128,7 +170,6 @@ pub struct SweepRow {
 fn sweep_row(setup: &Setup, portfolio: &PortfolioTruth, bps: f64, outcomes: &Outcomes) -> SweepRow {
     let (c, ppy) = (bps * 1e-4, setup.scenario.periods_per_year);
     let (ir, se) = crate::portfolio::truth::net_ir_at(&portfolio.linear_sums, &portfolio.linear_paths, c, ppy);
-    let net_vol: Vec<f64> = portfolio.linear_sums.iter().map(|s| s.net_mean_sd(c).1).collect();
     let best = argmax1(&ir);
     SweepRow {
         cost_bps: bps,
@@ -136,7 +177,7 @@ fn sweep_row(setup: &Setup, portfolio: &PortfolioTruth, bps: f64, outcomes: &Out
         true_net_ir: ir[best - 1],
         true_net_ir_se: se[best - 1],
         true_near_best: near_set(&ir, setup.scenario.near_best_tolerance),
-        measured: net_ir_rule(setup, &ir, &net_vol, c, outcomes),
+        measured: net_ir_rule(setup, &ir, &portfolio.linear_paths, c, outcomes),
         measured_net_ir: net_ir_bands(outcomes, c, ppy, ir.len()),
         true_net_ir_curve: ir,
     }
@@ -194,12 +235,17 @@ pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes)
     StudyResult {
         paths: outcomes.paths(),
         seed: setup.scenario.seed,
-        se_method: "Newey-West (Bartlett) with max(2n, floor(4(m/100)^(2/9))) lags for horizon n over m dates; lagged ICs use n = 1".into(),
+        se_method: crate::measure::hac::METHOD.into(),
+        ranking: ranking::rank(&target, outcomes, |r| match r {
+            Rule::Formula => 1,
+            Rule::Fitted => 2,
+            _ => 0,
+        }),
         rules: RulesOut {
             peak: stats(Rule::Peak, 0),
             formula: stats(Rule::Formula, 1),
             fitted: stats(Rule::Fitted, 2),
-            net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear.net_vol, c, outcomes),
+            net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear_paths, c, outcomes),
         },
         cost_bps: portfolio.cost_bps,
         net_ir: net_ir_bands(outcomes, c, ppy, l),
@@ -207,9 +253,6 @@ pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes)
         fitted_families,
         lagged_ic: curve_stats(|p| outcomes.lagged(p), outcomes.paths(), l),
         horizon_ic: curve_stats(|p| outcomes.horizon(p), outcomes.paths(), l),
-        rank_lagged_ic: setup
-            .scenario
-            .rank_ic
-            .then(|| curve_stats(|p| outcomes.rank_lagged(p), outcomes.paths(), l)),
+        rank_lagged_ic: setup.scenario.rank_ic.then(|| curve_stats(|p| outcomes.rank_lagged(p), outcomes.paths(), l)),
     }
 }

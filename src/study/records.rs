@@ -3,6 +3,7 @@
 
 use super::{Outcomes, Setup};
 use crate::measure::rules::Rule;
+use crate::portfolio::BookSums;
 use crate::stats::{BAND_LEVELS, Moments, Proportion, quantile_discrete, quantile_sorted};
 use crate::truth::{argmax1, near_set};
 use serde::Serialize;
@@ -49,12 +50,30 @@ pub struct RuleStats {
     /// Quantiles 5, 25, 50, 75, 95 % of the chosen horizon.
     pub choice_quantiles: Vec<f64>,
     /// Net-IR rule only: mean regret in basis points a year (IR given up times
-    /// the best book's annual volatility).
+    /// the target annual volatility, `portfolio.target_vol`).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub regret_bps_year_mean: Option<f64>,
-    /// Its Monte Carlo standard error.
+    /// Its Monte Carlo standard error over the study's histories.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub regret_bps_year_mean_se: Option<f64>,
+    /// Net-IR rule only: the standard error the reference simulation's truth
+    /// adds to `regret_mean` (IR units), paired over the reference histories
+    /// with the study's choice frequencies held fixed; independent of
+    /// `regret_mean_se`, so the two combine as `sqrt(a² + b²)`.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub regret_ref_se: Option<f64>,
+    /// The same in basis points a year.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub regret_bps_year_ref_se: Option<f64>,
+}
+
+impl RuleStats {
+    /// The whole standard error of the mean regret in bps a year: study and
+    /// reference errors combined (net-IR rule only).
+    pub fn regret_bps_year_total_se(&self) -> Option<f64> {
+        let study = self.regret_bps_year_mean_se?;
+        Some(study.hypot(self.regret_bps_year_ref_se.unwrap_or(0.0)))
+    }
 }
 
 /// The three rules' results.
@@ -148,14 +167,26 @@ pub fn rule_stats(
         choice_quantiles: BAND_LEVELS.iter().map(|&q| quantile_discrete(&chosen, q)).collect(),
         regret_bps_year_mean: None,
         regret_bps_year_mean_se: None,
+        regret_ref_se: None,
+        regret_bps_year_ref_se: None,
     }
 }
 
 /// The net-IR rule at one-way cost `c`: each path's best holding length by
 /// its own measured net IR, judged against the true net IR. The regret in
-/// basis points a year is the IR given up times the annual volatility of the
-/// best book: the return lost at the best book's risk.
-pub fn net_ir_rule(setup: &Setup, truth_ir: &[f64], truth_net_vol: &[f64], c: f64, outcomes: &Outcomes) -> RuleStats {
+/// basis points a year is the IR given up times the target annual volatility
+/// (`portfolio.target_vol`): the return lost when whichever book is chosen is
+/// run at that risk (Grinold and Kahn, 2000: active return = IR × active risk).
+///
+/// `reference` holds the reference histories' sums, whose spread gives the
+/// truth's own error in the regret.
+pub fn net_ir_rule(
+    setup: &Setup,
+    truth_ir: &[f64],
+    reference: &[Vec<BookSums>],
+    c: f64,
+    outcomes: &Outcomes,
+) -> RuleStats {
     let ppy = setup.scenario.periods_per_year;
     let near = near_set(truth_ir, setup.scenario.near_best_tolerance);
     let target = Target { truth: truth_ir, best: argmax1(truth_ir), near: &near };
@@ -164,12 +195,20 @@ pub fn net_ir_rule(setup: &Setup, truth_ir: &[f64], truth_net_vol: &[f64], c: f6
     let chosen: Vec<usize> =
         (0..outcomes.paths()).map(|p| argmax1(&(1..=l).map(|n| ir(p, n)).collect::<Vec<_>>())).collect();
     let mut stats = rule_stats(Rule::NetIr.describe(), &target, outcomes.paths(), |p| chosen[p], ir);
-    let annual_vol_bps = truth_net_vol[target.best - 1] * ppy.sqrt() * 1e4;
+    let annual_vol_bps = setup.scenario.portfolio.target_vol * 1e4;
     let mut bps = Moments::default();
     for &n in &chosen {
         bps.push((truth_ir[target.best - 1] - truth_ir[n - 1]) * annual_vol_bps);
     }
     stats.regret_bps_year_mean = Some(bps.mean());
     stats.regret_bps_year_mean_se = bps.se();
+    let share: Vec<f64> = stats.choice_counts.iter().map(|&k| k as f64 / chosen.len().max(1) as f64).collect();
+    let mut by_reference = Moments::default();
+    for path in reference {
+        let best = path[target.best - 1].ir(c, ppy);
+        by_reference.push((1..=l).map(|h| share[h - 1] * (best - path[h - 1].ir(c, ppy))).sum());
+    }
+    stats.regret_ref_se = by_reference.se();
+    stats.regret_bps_year_ref_se = by_reference.se().map(|s| s * annual_vol_bps);
     stats
 }

@@ -159,6 +159,7 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
                       errors."
             .into(),
         methods,
+        ..Page::default()
     }
 }
 

@@ -104,8 +104,18 @@ pub struct Table {
 pub struct Page {
     /// Title of the page.
     pub title: String,
-    /// The plain-language summary, sentences in HTML.
+    /// The plain-language summary (the recommendation first), sentences in HTML.
     pub summary: Vec<String>,
+    /// Key figures, one sentence each, shown as a list under the summary.
+    pub key_figures: Vec<String>,
+    /// Warnings shown under the key figures.
+    pub warnings: Vec<String>,
+    /// `(heading, paragraph in HTML)` explanations shown before the charts.
+    pub explain: Vec<(String, String)>,
+    /// `(term, meaning)` of the glossary, shown after the charts.
+    pub glossary: Vec<(String, String)>,
+    /// Heading of the error table (default: Monte Carlo error).
+    pub errors_heading: String,
     /// `(title, caption, svg)` per chart.
     pub charts: Vec<(String, String, String)>,
     /// Result tables shown after the charts.
@@ -133,7 +143,8 @@ figure{margin:1.4rem 0;break-inside:avoid;page-break-inside:avoid}figure svg{wid
 figcaption{font-size:.95rem;color:#333;margin-top:.3rem}\
 table{border-collapse:collapse;margin:.6rem 0;font-size:.92rem;font-variant-numeric:tabular-nums;display:block;overflow-x:auto}\
 th,td{padding:.25rem .6rem;border-bottom:1px solid #ddd;text-align:left;vertical-align:top}td.n{text-align:right}th{background:#f4f4f4}\
-.caution{background:#fff6e5;border-left:4px solid #e69f00;padding:.6rem 1rem}.muted{color:#555;font-size:.9rem}\
+.caution{background:#fff6e5;border-left:4px solid #e69f00;padding:.6rem 1rem}\
+.warning{background:#fdecea;border-left:4px solid #d55e00;padding:.5rem 1rem}dt{font-weight:bold;margin-top:.4rem}dd{margin:0 0 0 1.2rem}.muted{color:#555;font-size:.9rem}\
 @media (max-width:700px){body{padding:.6rem}figure{overflow-x:auto}figure svg{width:680px;max-width:none}}\
 @media print{body{max-width:none;font-size:10pt}h2{break-after:avoid}figure svg{max-height:118mm;width:auto;max-width:100%;margin:0 auto}.lead{border:1px solid #0072b2}}";
 
@@ -155,9 +166,23 @@ pub fn render(page: &Page, made: &Made) -> Vec<u8> {
     );
     let _ = write!(
         h,
-        "<section id=\"summary\">\n<h2>Summary</h2>\n<p class=\"lead\">{}</p>\n</section>\n",
+        "<section id=\"summary\">\n<h2>Recommendation</h2>\n<p class=\"lead\">{}</p>\n",
         page.summary.join(" ")
     );
+    if !page.key_figures.is_empty() {
+        h.push_str("<h3>Key figures</h3>\n<ul class=\"key\">\n");
+        for k in &page.key_figures {
+            let _ = writeln!(h, "<li>{k}</li>");
+        }
+        h.push_str("</ul>\n");
+    }
+    for w in &page.warnings {
+        let _ = writeln!(h, "<p class=\"warning\"><strong>Warning.</strong> {}</p>", esc(w));
+    }
+    h.push_str("</section>\n");
+    for (heading, text) in &page.explain {
+        let _ = write!(h, "<section class=\"explain\">\n<h2>{}</h2>\n<p>{text}</p>\n</section>\n", esc(heading));
+    }
     h.push_str("<section id=\"charts\">\n<h2>Charts</h2>\n");
     if page.charts.is_empty() {
         h.push_str("<p class=\"muted\">Charts were not drawn (<code>--no-charts</code>).</p>\n");
@@ -174,19 +199,28 @@ pub fn render(page: &Page, made: &Made) -> Vec<u8> {
     for t in &page.tables {
         let _ = write!(h, "<h3>{}</h3>\n{}", esc(&t.heading), table(&t.header, &t.rows));
     }
-    h.push_str("</section>\n<section id=\"parameters\">\n<h2>Parameters</h2>\n");
+    h.push_str("</section>\n");
+    if !page.glossary.is_empty() {
+        h.push_str("<section id=\"glossary\">\n<h2>Glossary</h2>\n<dl>\n");
+        for (term, meaning) in &page.glossary {
+            let _ = writeln!(h, "<dt>{}</dt><dd>{}</dd>", esc(term), esc(meaning));
+        }
+        h.push_str("</dl>\n</section>\n");
+    }
+    h.push_str("<section id=\"appendix\">\n<h2>Appendix</h2>\n<div id=\"parameters\">\n<h3>Parameters</h3>\n");
     let rows: Vec<Vec<String>> = flatten(&page.parameters).into_iter().map(|(k, v)| vec![esc(&k), esc(&v)]).collect();
     h.push_str(&table(&["parameter".into(), "value".into()], &rows));
-    h.push_str("</section>\n<section id=\"mc-error\">\n<h2>Monte Carlo error</h2>\n");
+    let heading = if page.errors_heading.is_empty() { "Monte Carlo error" } else { &page.errors_heading };
+    let _ = writeln!(h, "</div>\n<div id=\"mc-error\">\n<h3>{}</h3>", esc(heading));
     let _ = writeln!(h, "<p>{}</p>", page.errors_note);
     let rows: Vec<Vec<String>> =
         page.errors.iter().map(|r| vec![esc(&r.what), r.value.clone(), r.se.clone()]).collect();
     h.push_str(&table(&["figure".into(), "estimate".into(), "Monte Carlo error".into()], &rows));
-    h.push_str("</section>\n<section id=\"methods\">\n<h2>Methods and sources</h2>\n<ul>\n");
+    h.push_str("</div>\n<div id=\"methods\">\n<h3>Methods and sources</h3>\n<ul>\n");
     for (what, how) in &page.methods {
         let _ = writeln!(h, "<li><strong>{}.</strong> {}</li>", esc(what), esc(how));
     }
-    h.push_str("</ul>\n</section>\n<section id=\"cautions\">\n<h2>Cautions</h2>\n");
+    h.push_str("</ul>\n</div>\n</section>\n<section id=\"cautions\">\n<h2>Cautions</h2>\n");
     let _ = write!(
         h,
         "<p class=\"caution\">{} The figures describe simulated histories drawn from the model and parameters \

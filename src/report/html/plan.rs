@@ -102,5 +102,6 @@ pub fn plan_page(scenario: &Scenario, plan: &PlanResult, goal: &Goal, charts: Ve
         errors,
         errors_note: ERRORS_NOTE.into(),
         methods,
+        ..Page::default()
     }
 }

@@ -85,5 +85,6 @@ pub fn stress_page(scenario: &Scenario, stress: &StressResult, charts: Vec<(Stri
                       values below; a regret smaller than about two of them cannot be told from zero."
             .into(),
         methods,
+        ..Page::default()
     }
 }

@@ -1,11 +1,9 @@
 //! The report of a study (`run`, `demo`); figures point into `summary.json`.
 
-use super::{ErrRow, Fmt, Page, fig, fig_opt, int, share_row};
+use super::{ErrRow, Fmt, Page, fig, fig_opt, share_row};
 use crate::measure::rules::Rule;
-use crate::portfolio::PortfolioTruth;
-use crate::report::charts::units;
-use crate::report::period_word;
-use crate::study::{RuleStats, Setup, StudyResult};
+use crate::report::story::{GLOSSARY, Study, plain};
+use crate::study::RuleStats;
 
 /// How the simulation, truth, estimators and rules work, with their sources.
 pub fn study_methods() -> Vec<(String, String)> {
@@ -94,9 +92,14 @@ pub fn rule_error_rows(name: &str, r: &RuleStats, at: &str) -> Vec<ErrRow> {
     ];
     if let Some(bps) = r.regret_bps_year_mean {
         rows.push(ErrRow::new(
-            format!("{name}: mean regret (bps a year)"),
+            format!("{name}: mean regret (bps a year at the target volatility), over the study's histories"),
             fig(&format!("{at}/regret_bps_year_mean"), bps, Fmt::Num(1)),
             opt(&format!("{at}/regret_bps_year_mean_se"), r.regret_bps_year_mean_se, Fmt::Num(1)),
+        ));
+        rows.push(ErrRow::new(
+            format!("{name}: the same regret's error from the reference simulation's truth"),
+            fig(&format!("{at}/regret_bps_year_mean"), bps, Fmt::Num(1)),
+            opt(&format!("{at}/regret_bps_year_ref_se"), r.regret_bps_year_ref_se, Fmt::Num(1)),
         ));
     }
     rows
@@ -106,57 +109,14 @@ pub fn rule_error_rows(name: &str, r: &RuleStats, at: &str) -> Vec<ErrRow> {
 pub const ERRORS_NOTE: &str = "Each figure below is an average over simulated histories, so it carries Monte Carlo \
 error: with another seed it would move by about one standard error. More paths shrink it as 1/sqrt(paths).";
 
-/// The report page of a study.
-pub fn study_page(
-    setup: &Setup,
-    portfolio: &PortfolioTruth,
-    study: &StudyResult,
-    charts: Vec<(String, String, String)>,
-) -> Page {
+/// The report page of a study: the story first (figures tagged with their
+/// place in `summary.json`), then charts, glossary and the appendix.
+pub fn study_page(story: &Study, charts: Vec<(String, String, String)>) -> Page {
+    let (setup, portfolio, study) = (story.setup, story.portfolio, story.study);
     let (s, t, lin) = (&setup.scenario, &setup.truth, &portfolio.linear);
-    let unit = period_word(s.periods_per_year);
     let (best, hold) = (t.best_horizon, lin.best_holding);
-    let peak = &study.rules.peak;
-    let best_rule = [Rule::Peak, Rule::Formula, Rule::Fitted]
-        .into_iter()
-        .min_by(|a, b| study.rules.get(*a).regret_rel_mean.total_cmp(&study.rules.get(*b).regret_rel_mean))
-        .unwrap_or(Rule::Peak);
-    let br = study.rules.get(best_rule);
-    let ni = &study.rules.net_ir;
-    let summary = vec![
-        format!(
-            "lagfold simulated {} histories of {} {unit}s of a forecast on {} assets whose true best holding horizon \
-             is {} {}, where the forecast's correlation with the returns that follow (the horizon IC) peaks at {}.",
-            int("/study/paths", study.paths),
-            int("/scenario/history", s.history),
-            int("/scenario/assets", s.assets),
-            int("/truth/best_horizon", best),
-            units(best, unit),
-            fig(&format!("/truth/horizon_ic/{}", best - 1), t.horizon_ic[best - 1], Fmt::Num(4)),
-        ),
-        format!(
-            "Picking the horizon where a history's measured horizon IC peaks landed exactly on it in {} of histories \
-             and within one {unit} of it in {}.",
-            fig("/study/rules/peak/hit_rate", peak.hit_rate, Fmt::Pct(1)),
-            fig("/study/rules/peak/near_hit_rate", peak.near_hit_rate, Fmt::Pct(1)),
-        ),
-        format!(
-            "A wrong pick usually costs little: on average that choice gave up {} of the best horizon IC, and the \
-             best of the three horizon rules ({}) gave up {}.",
-            fig("/study/rules/peak/regret_rel_mean", peak.regret_rel_mean, Fmt::Pct(1)),
-            rule_name(best_rule),
-            fig(&format!("/study/rules/{}/regret_rel_mean", best_rule.name()), br.regret_rel_mean, Fmt::Pct(1)),
-        ),
-        format!(
-            "After one-way costs of {} bps the best holding length is {} {} with a true net information ratio \
-             of {}; choosing it from a history's own net IR gave up on average {} basis points a year.",
-            fig("/study/cost_bps", study.cost_bps, Fmt::Plain),
-            int("/truth/best_holding", hold),
-            units(hold, unit),
-            fig(&format!("/truth/net_ir/{}", hold - 1), lin.net_ir[hold - 1], Fmt::Num(2)),
-            fig("/study/rules/net_ir/regret_bps_year_mean", ni.regret_bps_year_mean.unwrap_or(f64::NAN), Fmt::Num(1)),
-        ),
-    ];
+    let tagged = |p: &str, v: f64, f: Fmt| if p.is_empty() { plain(p, v, f) } else { fig(p, v, f) };
+    let summary = vec![story.recommendation(&tagged)];
     let mut errors = vec![
         ErrRow::new(
             "true horizon IC at the best horizon",
@@ -176,6 +136,13 @@ pub fn study_page(
             &format!("/study/rules/{}", rule.name()),
         ));
     }
+    if let Some(m) = story.more {
+        errors.extend(rule_error_rows(
+            &format!("net IR rule at twice the history ({} dates, {} histories)", m.history, m.paths),
+            &m.rules.net_ir,
+            "/more_history/rules/net_ir",
+        ));
+    }
     for (i, row) in study.cost_sweep.iter().enumerate() {
         errors.extend(rule_error_rows(
             &format!("net IR rule at {} bps", row.cost_bps),
@@ -186,6 +153,10 @@ pub fn study_page(
     Page {
         title: format!("lagfold report: {}", s.name),
         summary,
+        key_figures: story.key_figures(&tagged),
+        warnings: story.warnings(),
+        explain: vec![("Why the horizon-IC peak and the best holding differ".into(), story.why_optima_differ(&tagged))],
+        glossary: GLOSSARY.iter().map(|(a, b)| (a.to_string(), b.to_string())).collect(),
         charts,
         tables: Vec::new(),
         parameters: serde_json::to_value(s).unwrap_or_default(),
@@ -196,6 +167,7 @@ pub fn study_page(
             portfolio.reference_paths
         ),
         methods: study_methods(),
+        ..Page::default()
     }
 }
 

@@ -98,5 +98,6 @@ pub fn sweep_page(
         errors,
         errors_note: ERRORS_NOTE.into(),
         methods: study_methods(),
+        ..Page::default()
     }
 }
