@@ -329,6 +329,11 @@ fn calibrated_study(
         Some(&c) => scenario.portfolio.cost_bps = c,
         None => scenario.portfolio.reference_paths = MIN_REFERENCE_PATHS,
     }
+    if let Some(v) = a.target_vol {
+        scenario.portfolio.target_vol = crate::scenario::check_target_vol("--target-vol", v)
+            .map_err(|e| Failure::input(format!("option {e}")))?;
+    }
+    let target_vol = scenario.portfolio.target_vol;
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("calibrated.toml: {e}")))?;
     let (_, r) = truth_and_study(&setup, a, costs_bps);
     let net = r
@@ -343,7 +348,8 @@ fn calibrated_study(
             near_hit_rate: row.measured.near_hit_rate,
             near_hit_rate_se: row.measured.near_hit_rate_se,
             regret_bps_year_mean: row.measured.regret_bps_year_mean,
-            regret_bps_year_mean_se: row.measured.regret_bps_year_mean_se,
+            regret_bps_year_mean_se: row.measured.regret_bps_year_total_se(),
+            target_vol,
         })
         .collect();
     let rules = [&r.rules.peak, &r.rules.formula, &r.rules.fitted];

@@ -189,11 +189,13 @@ pub struct CalibratedNet {
     pub near_hit_rate: f64,
     /// Its Monte Carlo error.
     pub near_hit_rate_se: f64,
-    /// Mean regret in basis points a year (net IR given up × the best book's
-    /// annual volatility, unit gross exposure).
+    /// Mean regret in basis points a year (net IR given up × `target_vol`).
     pub regret_bps_year_mean: Option<f64>,
-    /// Its Monte Carlo error.
+    /// Its standard error: the study's histories and the reference
+    /// simulation's truth combined.
     pub regret_bps_year_mean_se: Option<f64>,
+    /// The book's annual volatility the basis points are scaled to.
+    pub target_vol: f64,
 }
 
 /// A date that gave no lag-1 IC, and why.
@@ -530,11 +532,12 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
         out.push_str(&paragraph(&format!(
             "Net of {} bps in those histories, the true best holding is {}; picking the holding with the best \
              measured net IR finds it in {} of them (within one period in {:.0}%), and gives up {miss} \
-             on average (unit gross book).",
+             on average at {} annual volatility.",
             n.cost_bps,
             n.true_best_holding,
             share_words(n.hit_rate, paths),
             100.0 * n.near_hit_rate,
+            super::story::vol_pct(n.target_vol),
         )));
     }
     if !m.se_disagreements.is_empty() {
