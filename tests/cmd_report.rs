@@ -126,11 +126,12 @@ fn run_draws_every_study_chart_and_a_report_that_agrees_with_summary_json() {
             ("chosen_horizon", "Which horizon each rule picks"),
             ("regret", "Regret"),
             ("net_ir", "Net information ratio"),
+            ("optima", "Why the horizon-IC peak and the best holding differ"),
         ],
     );
     let net = std::fs::read_to_string(out.join("net_ir.svg")).unwrap();
     assert!(net.contains("one-way cost 5 bps") && net.contains("one-way cost 30 bps"), "a panel per cost level");
-    let page = check_report(&out, "summary.json", 5);
+    let page = check_report(&out, "summary.json", 6);
     let params: String = page.select(&sel("#parameters")).next().unwrap().text().collect();
     assert!(params.contains("decay.half_life") && params.contains("portfolio.reference_paths"));
     let methods: String = page.select(&sel("#methods")).next().unwrap().text().collect();
@@ -244,6 +245,12 @@ fn a_sweep_draws_its_grid_and_tabulates_the_points() {
     let out = tmp.path().join("g");
     lagfold().arg("run").arg(&file).args(["-q", "--out"]).arg(&out).assert().success();
     check_charts(&out, &[("sweep", "grid points")]);
+    let svg = std::fs::read_to_string(out.join("sweep.svg")).unwrap();
+    let texts: Vec<&str> = svg.split("</text>").map(|t| t.rsplit('>').next().unwrap_or("").trim()).collect();
+    assert!(
+        texts.contains(&"grid point: decay.half_life") && texts.contains(&"2") && texts.contains(&"4"),
+        "the x axis names the swept field and each point's value: {texts:?}"
+    );
     let page = check_report(&out, "sweep.json", 1);
     assert_eq!(page.select(&sel("#charts table tbody tr")).count(), 2);
 }

@@ -52,6 +52,8 @@ pub struct XyPanel {
     pub y_percent: bool,
     /// Force y = 0 into the range.
     pub y_from_zero: bool,
+    /// A fixed y range (bottom, top), so panels that are compared share one scale.
+    pub y_fixed: Option<(f64, f64)>,
     /// What is drawn, in order (later on top); labelled layers are listed
     /// in a legend strip right of the panel.
     pub layers: Vec<Layer>,
@@ -190,6 +192,18 @@ pub(crate) fn wrap_to(text: &str, fits: impl Fn(&str) -> bool) -> Vec<String> {
     lines
 }
 
+/// `text` in ISO 8859-1, as a PNG `tEXt` chunk requires: dashes become
+/// hyphens, other characters outside it `?` (a user's curve name may hold any).
+fn latin1(text: &str) -> String {
+    text.chars()
+        .map(|c| match c {
+            '–' | '—' | '−' => '-',
+            c if u32::from(c) <= 0xFF => c,
+            _ => '?',
+        })
+        .collect()
+}
+
 fn encode_png(rgb: &[u8], (w, h): (u32, u32), title: &str) -> Result<Vec<u8>, png::EncodingError> {
     let mut out = Vec::new();
     {
@@ -197,7 +211,7 @@ fn encode_png(rgb: &[u8], (w, h): (u32, u32), title: &str) -> Result<Vec<u8>, pn
         enc.set_color(png::ColorType::Rgb);
         enc.set_depth(png::BitDepth::Eight);
         enc.set_compression(png::Compression::Default);
-        enc.add_text_chunk("Title".into(), title.into())?;
+        enc.add_text_chunk("Title".into(), latin1(title))?;
         enc.add_text_chunk("Software".into(), format!("lagfold {}", env!("CARGO_PKG_VERSION")))?;
         let mut writer = enc.write_header()?;
         writer.write_image_data(rgb)?;
@@ -265,6 +279,7 @@ mod tests {
         let info = reader.info();
         assert_eq!((info.width, info.height), (WIDTH, 650));
         assert!(info.uncompressed_latin1_text.iter().any(|t| t.keyword == "Title" && t.text == "A sample chart"));
+        assert_eq!(latin1("5–9 × 2 ≥ 1"), "5-9 × 2 ? 1");
     }
 
     #[test]

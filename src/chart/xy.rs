@@ -216,6 +216,9 @@ fn x_range(p: &XyPanel) -> (f64, f64) {
 }
 
 fn y_range(p: &XyPanel) -> (f64, f64) {
+    if let Some(r) = p.y_fixed {
+        return r;
+    }
     let mut ys: Vec<f64> = p
         .layers
         .iter()

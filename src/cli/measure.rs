@@ -330,8 +330,8 @@ fn calibrated_study(
         None => scenario.portfolio.reference_paths = MIN_REFERENCE_PATHS,
     }
     if let Some(v) = a.target_vol {
-        scenario.portfolio.target_vol = crate::scenario::check_target_vol("--target-vol", v)
-            .map_err(|e| Failure::input(format!("option {e}")))?;
+        scenario.portfolio.target_vol =
+            crate::scenario::check_target_vol("--target-vol", v).map_err(|e| Failure::input(format!("option {e}")))?;
     }
     let target_vol = scenario.portfolio.target_vol;
     let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("calibrated.toml: {e}")))?;

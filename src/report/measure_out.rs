@@ -268,7 +268,7 @@ pub struct MeasureResult {
     pub horizons_requested: usize,
     /// Longest horizon measured (at most a quarter of the history).
     pub horizons: usize,
-    /// Calendar inferred from the dates: `month-end`, `weekly`, `business-daily` or `rows`.
+    /// Calendar inferred from the dates: `monthly`, `weekly`, `business-daily` or `irregular (one period per date)`.
     pub frequency: String,
     /// Periods with no row at all, inserted as empty dates (ISO dates).
     pub missing_periods: Vec<String>,

@@ -21,12 +21,35 @@ fn with_bars(c: &Curve, label: &str) -> Layer {
 }
 
 /// Both charts of a measured panel.
+/// The period of the panel's calendar, plural: "months", "weeks", "business days", or "periods".
+fn periods(frequency: &str) -> &'static str {
+    match frequency {
+        "monthly" => "months",
+        "weekly" => "weeks",
+        "business-daily" => "business days",
+        _ => "periods",
+    }
+}
+
+/// The assets measured per date, in words: "270 to 290 assets per date (median 281)"
+/// (no dash: the PNG's title chunk is Latin-1).
+fn breadth(used: &[usize]) -> String {
+    let mut v: Vec<usize> = used.iter().copied().filter(|&n| n > 0).collect();
+    v.sort_unstable();
+    match (v.first(), v.last()) {
+        (Some(lo), Some(hi)) if lo == hi => format!("{lo} assets per date"),
+        (Some(lo), Some(hi)) => format!("{lo} to {hi} assets per date (median {})", v[v.len() / 2]),
+        _ => "no assets measured".into(),
+    }
+}
+
 pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
     let l = m.lagged_ic.mean.len();
+    let per = periods(&m.frequency);
     let zero = Layer::HLine { y: 0.0, colour: PALETTE.grey, label: String::new() };
     let lagged = Panel::Xy(XyPanel {
         heading: "lagged IC".into(),
-        x_label: "lag (periods)".into(),
+        x_label: format!("lag ({per})"),
         y_label: "mean lagged IC".into(),
         layers: vec![
             zero.clone(),
@@ -54,7 +77,7 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
     }
     let horizon = Panel::Xy(XyPanel {
         heading: "horizon IC".into(),
-        x_label: "horizon (periods)".into(),
+        x_label: format!("horizon ({per})"),
         y_label: "mean horizon IC".into(),
         layers: horizon_layers,
         ..XyPanel::default()
@@ -70,7 +93,7 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
                 chosen,
                 100.0 * bs.share_at_estimate[i].unwrap_or(0.0),
             ),
-            x_label: "chosen horizon (periods)".into(),
+            x_label: format!("chosen horizon ({per})"),
             y_label: "share of resamples".into(),
             y_percent: true,
             y_from_zero: true,
@@ -95,7 +118,7 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
     .collect();
     let mut charts = vec![Chart {
         name: "measured_ic".into(),
-        title: format!("Your signal's measured decay ({} dates × {} assets)", m.dates_used, m.assets),
+        title: format!("Your signal's measured decay ({} dates × {})", m.dates_used, breadth(&m.per_date.used_assets)),
         caption: "Points are the measured means with their 95% intervals (EWC errors, Student-t critical \
                       values); where the bars around the peak overlap, the data cannot tell those horizons apart."
             .into(),
@@ -143,10 +166,10 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
         });
     }
     if let Some(c) = &m.comparison {
-        charts.push(signals_chart(c));
+        charts.push(signals_chart(c, per));
     }
     if let Some(b) = &m.books {
-        charts.push(holdings_chart(b));
+        charts.push(holdings_chart(b, per));
     }
     if !boot_panels.is_empty() {
         charts.push(Chart {
@@ -168,7 +191,7 @@ const SIGNAL_COLOURS: [crate::chart::Colour; 6] =
 
 /// Every signal's lagged and horizon ICs on shared axes, and the correlation
 /// of their per-date ICs.
-fn signals_chart(c: &crate::report::SignalComparison) -> Chart {
+fn signals_chart(c: &crate::report::SignalComparison, per: &str) -> Chart {
     let lines = |curve: fn(&crate::report::SignalSummary) -> &Curve| -> Vec<Layer> {
         let mut layers = vec![Layer::HLine { y: 0.0, colour: PALETTE.grey, label: String::new() }];
         for (i, s) in c.signals.iter().enumerate() {
@@ -218,14 +241,14 @@ fn signals_chart(c: &crate::report::SignalComparison) -> Chart {
         panels: vec![
             Panel::Xy(XyPanel {
                 heading: "lagged IC".into(),
-                x_label: "lag (periods)".into(),
+                x_label: format!("lag ({per})"),
                 y_label: "mean lagged IC".into(),
                 layers: lines(|s| &s.lagged_ic),
                 ..XyPanel::default()
             }),
             Panel::Xy(XyPanel {
                 heading: "horizon IC".into(),
-                x_label: "horizon (periods)".into(),
+                x_label: format!("horizon ({per})"),
                 y_label: "mean horizon IC".into(),
                 layers: lines(|s| &s.horizon_ic),
                 ..XyPanel::default()
@@ -238,7 +261,7 @@ fn signals_chart(c: &crate::report::SignalComparison) -> Chart {
 
 /// The tranche books on the user's panel: gross and net IR by holding length
 /// with one-standard-error bands, and the turnover.
-fn holdings_chart(b: &crate::report::OwnBooks) -> Chart {
+fn holdings_chart(b: &crate::report::OwnBooks, per: &str) -> Chart {
     let band = |ir: &[Option<f64>], se: &[Option<f64>], colour, label: String| -> Vec<Layer> {
         let pts: Vec<(f64, f64, f64)> =
             ir.iter().zip(se).enumerate().filter_map(|(h, (v, s))| Some(((h + 1) as f64, (*v)?, (*s)?))).collect();
@@ -274,21 +297,21 @@ fn holdings_chart(b: &crate::report::OwnBooks) -> Chart {
         b.turnover.iter().enumerate().filter_map(|(h, t)| Some(((h + 1) as f64, (*t)?))).collect();
     Chart {
         name: "holdings".into(),
-        title: format!("Tranche books on your panel ({} periods)", b.periods),
+        title: format!("Tranche books on your panel ({} {per})", b.periods),
         caption: "Annualised information ratio of the staggered-tranche book by holding length, gross and net of \
                   each cost, with one-standard-error bands (Lo, 2002); below, the traded notional per period."
             .into(),
         panels: vec![
             Panel::Xy(XyPanel {
                 heading: "information ratio".into(),
-                x_label: "holding length (periods)".into(),
+                x_label: format!("holding length ({per})"),
                 y_label: "annualised IR".into(),
                 layers,
                 ..XyPanel::default()
             }),
             Panel::Xy(XyPanel {
                 heading: "turnover".into(),
-                x_label: "holding length (periods)".into(),
+                x_label: format!("holding length ({per})"),
                 y_label: "traded per period (× gross)".into(),
                 y_from_zero: true,
                 layers: vec![Layer::Line {

@@ -56,6 +56,7 @@ pub fn record_panel(
         y_percent: true,
         y_from_zero: metric == Metric::Regret,
         layers,
+        ..XyPanel::default()
     })
 }
 
@@ -84,8 +85,12 @@ pub fn plan_charts(scenario: &Scenario, plan: &PlanResult, goal: &Goal) -> Vec<C
 pub fn sweep_charts(points: &[SweepPoint]) -> Vec<Chart> {
     let xs: Vec<f64> = (0..points.len()).map(|i| i as f64).collect();
     let records: Vec<&RulesOut> = points.iter().map(|p| &p.rules).collect();
-    let cats: Vec<String> = (1..=points.len()).map(|i| format!("#{i}")).collect();
-    let panel = |metric| record_panel(&xs, &records, "grid point (see the table)", cats.clone(), metric, None);
+    // Each point is labelled with its grid values; the axis title names the fields.
+    let cats: Vec<String> =
+        points.iter().map(|p| p.at.iter().map(|(_, v)| v.as_str()).collect::<Vec<_>>().join(" · ")).collect();
+    let fields = points.first().map(|p| p.at.iter().map(|(k, _)| k.as_str()).collect::<Vec<_>>().join(" · "));
+    let x_label = format!("grid point: {}", fields.unwrap_or_default());
+    let panel = |metric| record_panel(&xs, &records, &x_label, cats.clone(), metric, None);
     vec![Chart {
         name: "sweep".into(),
         title: format!("Each rule's record across the {} grid points", points.len()),

@@ -7,10 +7,11 @@ use crate::report::period_word;
 use crate::scenario::Scenario;
 use crate::stress::{RegretMatrix, StressResult};
 
-/// Colours of the curves, the assumed one black; cycles after seven.
+/// Colours of the curves, the assumed one black; cycles after six. Vermillion
+/// is kept for optima, as on every chart.
 fn curve_colour(i: usize) -> Colour {
     let p = &PALETTE;
-    [p.black, p.blue, p.orange, p.green, p.purple, p.sky, p.vermillion][i % 7]
+    [p.black, p.orange, p.green, p.purple, p.sky, p.blue][i % 6]
 }
 
 /// Both charts of a stress test.

@@ -77,11 +77,20 @@ pub fn study_charts(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResu
         chosen_chart(setup, portfolio, study, unit),
         regret_chart(setup, portfolio, study),
         net_ir_chart(portfolio, study, unit),
+        optima_chart(setup, portfolio, unit),
     ]
 }
 
 fn chosen_chart(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult, unit: &str) -> Chart {
     let t = &setup.truth;
+    // One y scale for the four panels, so their heights compare.
+    let top = [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr]
+        .iter()
+        .map(|&r| {
+            let c = &study.rules.get(r).choice_counts;
+            c.iter().copied().max().unwrap_or(0) as f64 / c.iter().sum::<u64>().max(1) as f64
+        })
+        .fold(0.0, f64::max);
     let panel = |rule: Rule, best: usize, what: &str| {
         let r = study.rules.get(rule);
         Panel::Xy(XyPanel {
@@ -94,6 +103,7 @@ fn chosen_chart(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult, 
             y_label: "share of histories".into(),
             y_percent: true,
             y_from_zero: true,
+            y_fixed: Some((0.0, 1.06 * top.max(0.01))),
             layers: vec![
                 share_bars(&r.choice_counts, rule_colour(rule), "chosen"),
                 Layer::VLine { x: best as f64, colour: PALETTE.vermillion, label: format!("true best ({best})") },
@@ -121,41 +131,117 @@ fn regret_chart(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult) 
     let t = &setup.truth;
     let lin = &portfolio.linear;
     let names = regret_bin_names();
-    let rules = [
-        (Rule::Peak, &t.horizon_ic, t.best_horizon),
-        (Rule::Formula, &t.horizon_ic, t.best_horizon),
-        (Rule::Fitted, &t.horizon_ic, t.best_horizon),
-        (Rule::NetIr, &lin.net_ir, lin.best_holding),
-    ];
-    let width = 0.2;
-    let layers = rules
-        .iter()
-        .enumerate()
-        .map(|(i, &(rule, truth, best))| Layer::Bars {
-            x: (0..names.len()).map(|k| k as f64).collect(),
-            y: regret_shares(&study.rules.get(rule).choice_counts, truth, best),
-            offset: (i as f64 - 1.5) * width,
-            width: width * 0.9,
-            colour: rule_colour(rule),
-            label: rule_title(rule).into(),
-        })
-        .collect();
-    Chart {
-        name: "regret".into(),
-        title: "Regret: share of the best value given up by the chosen horizon".into(),
-        caption: "Tall bars on the left mean a wrong pick costs little; bars on the right are histories where the \
-                  choice gave up much of the best horizon IC (or, for the net-IR rule, of the best net IR)."
-            .into(),
-        panels: vec![Panel::Xy(XyPanel {
-            x_label: "share of the best value given up".into(),
+    let horizon_rules = [Rule::Peak, Rule::Formula, Rule::Fitted];
+    let shares = |rule: Rule| {
+        let (truth, best) =
+            if rule == Rule::NetIr { (&lin.net_ir, lin.best_holding) } else { (&t.horizon_ic, t.best_horizon) };
+        regret_shares(&study.rules.get(rule).choice_counts, truth, best)
+    };
+    let top = horizon_rules.iter().chain(&[Rule::NetIr]).flat_map(|&r| shares(r)).fold(0.0, f64::max);
+    let panel = |rules: &[Rule], heading: &str, x_label: &str| {
+        let width = 0.8 / rules.len() as f64;
+        let layers = rules
+            .iter()
+            .enumerate()
+            .map(|(i, &rule)| Layer::Bars {
+                x: (0..names.len()).map(|k| k as f64).collect(),
+                y: shares(rule),
+                offset: (i as f64 - (rules.len() as f64 - 1.0) / 2.0) * width,
+                width: width * 0.9,
+                colour: rule_colour(rule),
+                label: rule_title(rule).into(),
+            })
+            .collect();
+        Panel::Xy(XyPanel {
+            heading: heading.into(),
+            x_label: x_label.into(),
             y_label: "share of histories".into(),
-            x_categories: names,
+            x_categories: names.clone(),
             y_percent: true,
             y_from_zero: true,
+            y_fixed: Some((0.0, 1.06 * top.max(0.01))),
             layers,
-            ..XyPanel::default()
-        })],
-        panel_height: 520,
+        })
+    };
+    Chart {
+        name: "regret".into(),
+        title: "Regret: share of the best value given up by the choice".into(),
+        caption: "Tall bars on the left mean a wrong pick costs little; bars on the right are histories where the \
+                  choice gave up much of the best horizon IC (top) or of the best net IR (bottom)."
+            .into(),
+        panels: vec![
+            panel(
+                &horizon_rules,
+                "horizon rules: share of the best horizon IC given up",
+                "share of the best horizon IC given up",
+            ),
+            panel(
+                &[Rule::NetIr],
+                "net-IR rule: share of the best net IR given up",
+                "share of the best net IR given up",
+            ),
+        ],
+        panel_height: 380,
+    }
+}
+
+/// The horizon-IC peak against the best holding: the true horizon IC on top,
+/// the true gross and net IR of the tranche book below, on one holding axis.
+fn optima_chart(setup: &Setup, portfolio: &PortfolioTruth, unit: &str) -> Chart {
+    let (t, lin) = (&setup.truth, &portfolio.linear);
+    let x: Vec<f64> = (1..=t.horizon_ic.len()).map(|n| n as f64).collect();
+    let gross_best = crate::truth::argmax1(&lin.gross_ir);
+    let line = |y: &[f64], dashed: bool, label: &str| Layer::Line {
+        x: x.clone(),
+        y: y.to_vec(),
+        colour: PALETTE.black,
+        width: 2,
+        dashed,
+        markers: false,
+        label: label.into(),
+    };
+    Chart {
+        name: "optima".into(),
+        title: "Why the horizon-IC peak and the best holding differ".into(),
+        caption: format!(
+            "The top panel's peak ({}) is where one forecast is best used; the bottom panel's optima are where a \
+             book of overlapping tranches does best before and after costs ({} and {}).",
+            plural(t.best_horizon, unit),
+            plural(gross_best, unit),
+            plural(lin.best_holding, unit)
+        ),
+        panels: vec![
+            Panel::Xy(XyPanel {
+                heading: "true horizon IC of one forecast".into(),
+                x_label: format!("horizon n = holding length h ({unit}s)"),
+                y_label: "horizon IC".into(),
+                layers: vec![
+                    line(&t.horizon_ic, false, "horizon IC"),
+                    Layer::VLine {
+                        x: t.best_horizon as f64,
+                        colour: PALETTE.vermillion,
+                        label: format!("peak ({})", t.best_horizon),
+                    },
+                ],
+                ..XyPanel::default()
+            }),
+            Panel::Xy(XyPanel {
+                heading: format!("true information ratio of the tranche book ({} bps one-way)", portfolio.cost_bps),
+                x_label: format!("holding length h ({unit}s)"),
+                y_label: "annualised IR".into(),
+                layers: vec![
+                    line(&lin.gross_ir, true, "gross IR"),
+                    line(&lin.net_ir, false, "net IR"),
+                    Layer::VLine {
+                        x: lin.best_holding as f64,
+                        colour: PALETTE.vermillion,
+                        label: format!("best net ({})", lin.best_holding),
+                    },
+                ],
+                ..XyPanel::default()
+            }),
+        ],
+        panel_height: 360,
     }
 }
 

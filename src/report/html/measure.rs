@@ -80,7 +80,7 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
     for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
         if let (Some(share), Some(se)) = (bs.share_at_estimate[i], bs.share_at_estimate_se[i]) {
             errors.push(ErrRow::new(
-                format!("{}: share of resamples choosing the full-data horizon", rule_name(rule)),
+                format!("{}: share of resamples choosing the full-data horizon (Monte Carlo error)", rule_name(rule)),
                 fig(&format!("/bootstrap/share_at_estimate/{i}"), share, Fmt::Pct(1)),
                 fig(&format!("/bootstrap/share_at_estimate_se/{i}"), se, Fmt::Pct(2)),
             ));
@@ -89,7 +89,7 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
     if let Some(c) = &m.calibrated_study {
         for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
             errors.push(share_row(
-                format!("calibrated study, {}: within one period", rule_name(rule)),
+                format!("calibrated study, {}: within one period (Monte Carlo error)", rule_name(rule)),
                 &format!("/calibrated_study/near_hit_rate/{i}"),
                 &format!("/calibrated_study/near_hit_rate_ci/{i}"),
                 c.near_hit_rate[i],
@@ -99,7 +99,7 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
     }
     for (i, n) in m.calibrated_study.iter().flat_map(|c| c.net.iter()).enumerate() {
         errors.push(share_row(
-            format!("calibrated study, net-IR rule at {} bps: exact hit", n.cost_bps),
+            format!("calibrated study, net-IR rule at {} bps: exact hit (Monte Carlo error)", n.cost_bps),
             &format!("/calibrated_study/net/{i}/hit_rate"),
             &format!("/calibrated_study/net/{i}/hit_rate_ci"),
             n.hit_rate,
@@ -154,6 +154,7 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
         tables,
         parameters,
         errors,
+        errors_heading: "Sampling error of your data's figures and Monte Carlo error of the simulations".into(),
         errors_note: "Figures measured on your data carry sampling error (the EWC standard errors); the \
                       bootstrap shares and the calibrated study are Monte Carlo averages with binomial standard \
                       errors."

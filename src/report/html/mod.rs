@@ -208,7 +208,10 @@ pub fn render(page: &Page, made: &Made) -> Vec<u8> {
         h.push_str("</dl>\n</section>\n");
     }
     h.push_str("<section id=\"appendix\">\n<h2>Appendix</h2>\n<div id=\"parameters\">\n<h3>Parameters</h3>\n");
-    let rows: Vec<Vec<String>> = flatten(&page.parameters).into_iter().map(|(k, v)| vec![esc(&k), esc(&v)]).collect();
+    let rows: Vec<Vec<String>> = flatten(&page.parameters)
+        .into_iter()
+        .map(|(k, v)| vec![format!("{} <code class=\"muted\">{}</code>", esc(&label(&k)), esc(&k)), esc(&readable(&v))])
+        .collect();
     h.push_str(&table(&["parameter".into(), "value".into()], &rows));
     let heading = if page.errors_heading.is_empty() { "Monte Carlo error" } else { &page.errors_heading };
     let _ = writeln!(h, "</div>\n<div id=\"mc-error\">\n<h3>{}</h3>", esc(heading));
@@ -254,6 +257,58 @@ fn table(header: &[String], rows: &[Vec<String>]) -> String {
 }
 
 /// `a.b.c = value` rows of a JSON object; arrays shown compactly.
+/// Readable names of the scenario's fields (the field itself is shown beside, in code).
+const LABELS: [(&str, &str); 26] = [
+    ("name", "Scenario name"),
+    ("description", "Description"),
+    ("assets", "Breadth N (assets per date)"),
+    ("history", "History T (dates per simulated history)"),
+    ("horizons", "Longest horizon and lag studied"),
+    ("paths", "Simulated histories"),
+    ("seed", "Master seed"),
+    ("periods_per_year", "Periods per year"),
+    ("residual_vol", "Residual volatility per period"),
+    ("forecast_autocorrelation", "Forecast autocorrelation per period"),
+    ("ic_vol", "Volatility of the common IC shock"),
+    ("ic_vol_persistence", "Persistence of the IC shock (AR(1))"),
+    ("near_best_tolerance", "Near-best tolerance (share of the best)"),
+    ("truncation", "Lag beyond which the IC is zero"),
+    ("rank_ic", "Rank ICs measured too"),
+    ("alternatives", "Stress alternatives"),
+    ("replace_default_alternatives", "Default stress curves replaced"),
+    ("decay.family", "Decay family"),
+    ("decay.ic1", "Lag-1 IC"),
+    ("decay.half_life", "Half-life (periods)"),
+    ("tails.family", "Residual distribution"),
+    ("tails.dof", "Student t degrees of freedom"),
+    ("portfolio.cost_bps", "One-way cost (bps of traded notional)"),
+    ("portfolio.quantiles", "Quantiles of the quantile book"),
+    ("portfolio.reference_paths", "Reference histories for the true net IR"),
+    ("portfolio.target_vol", "Book's target annual volatility"),
+];
+
+/// The readable name of a flattened field: from [`LABELS`], else the last
+/// part with spaces ("decay.zero_at" → "Decay: zero at").
+fn label(key: &str) -> String {
+    if let Some((_, l)) = LABELS.iter().find(|(k, _)| *k == key) {
+        return (*l).to_string();
+    }
+    let (head, last) = key.rsplit_once('.').unwrap_or(("", key));
+    let words = last.replace('_', " ");
+    if head.is_empty() { words } else { format!("{}: {words}", head.replace('_', " ")) }
+}
+
+/// A value as a reader expects it: no ".0" on whole numbers, yes/no, "none" for an empty list.
+fn readable(v: &str) -> String {
+    match v {
+        "[]" => "none".into(),
+        "true" => "yes".into(),
+        "false" => "no".into(),
+        x if x.ends_with(".0") && x[..x.len() - 2].parse::<i64>().is_ok() => x[..x.len() - 2].to_string(),
+        x => x.to_string(),
+    }
+}
+
 fn flatten(v: &serde_json::Value) -> Vec<(String, String)> {
     fn go(prefix: &str, v: &serde_json::Value, out: &mut Vec<(String, String)>) {
         match v {
