@@ -145,7 +145,7 @@ table{border-collapse:collapse;margin:.6rem 0;font-size:.92rem;font-variant-nume
 th,td{padding:.25rem .6rem;border-bottom:1px solid #ddd;text-align:left;vertical-align:top}td.n{text-align:right}th{background:#f4f4f4}\
 .caution{background:#fff6e5;border-left:4px solid #e69f00;padding:.6rem 1rem}\
 .warning{background:#fdecea;border-left:4px solid #d55e00;padding:.5rem 1rem}dt{font-weight:bold;margin-top:.4rem}dd{margin:0 0 0 1.2rem}.muted{color:#555;font-size:.9rem}\
-@media (max-width:700px){body{padding:.6rem}figure{overflow-x:auto}figure svg{width:680px;max-width:none}}\
+@media (max-width:700px){body{padding:.6rem}h1{font-size:1.3rem}code{overflow-wrap:anywhere}}\
 @media print{body{max-width:none;font-size:10pt}h2{break-after:avoid}figure svg{max-height:118mm;width:auto;max-width:100%;margin:0 auto}.lead{border:1px solid #0072b2}}";
 
 /// The whole page, with the date, version and command line that made it.
