@@ -426,6 +426,17 @@ fn choice(x: Option<usize>) -> String {
 }
 
 /// The terminal summary (at most 80 columns).
+/// The plural period of a calendar name ("monthly" → "months"), "periods" when unknown.
+pub fn calendar_units(frequency: &str) -> String {
+    match frequency {
+        "monthly" => "months",
+        "weekly" => "weeks",
+        "business-daily" => "business days",
+        _ => "periods",
+    }
+    .into()
+}
+
 pub fn measure_terminal(m: &MeasureResult) -> String {
     let mut out = String::new();
     let _ = writeln!(out, "lagfold measure · {}", m.file);
@@ -450,6 +461,9 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
             "Forecasts and returns neutralised on each date on: {} (least-squares residuals, before any IC).",
             m.neutralised_on.join(", ")
         )));
+    }
+    if let Some(advice) = super::advice::measure_advice(m, &calendar_units(&m.frequency)) {
+        let _ = writeln!(out, "\nRecommendation\n  {advice}\n");
     }
     for w in &m.warnings {
         out.push_str(&paragraph(&format!("warning: {w}")));

@@ -1,6 +1,7 @@
 //! Stage 5: what users read. Exporters are pure functions from results to
 //! bytes; [`OutDir`] puts them in place only once all are written, as a whole folder.
 
+pub(crate) mod advice;
 pub(crate) mod charts;
 mod compare_out;
 mod csv_tables;
@@ -30,8 +31,8 @@ pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
 pub use finite::first_non_finite;
 pub use measure_out::{
     BestHorizon, BootCounts, Bootstrap, CalibratedNet, CalibratedStudy, Curve, MeasureResult, PerDateTable,
-    SkippedDate, SuccessRatio, TimingCheck, finite, measure_csv, measure_json, measure_terminal, per_date_csv,
-    ranges as measure_out_ranges,
+    SkippedDate, SuccessRatio, TimingCheck, calendar_units, finite, measure_csv, measure_json, measure_terminal,
+    per_date_csv, ranges as measure_out_ranges,
 };
 pub use outdir::{MARKER, OutDir};
 pub use own_books_out::{OWN_BOOKS_METHOD, OwnBooks, OwnNet, holdings_csv, own_books_terminal};

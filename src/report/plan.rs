@@ -39,6 +39,7 @@ pub fn plan_terminal(scenario: &Scenario, plan: &PlanResult) -> String {
         "  {} assets; {} paths at every history (the same paths cut shorter); seed {}\n",
         scenario.assets, plan.paths, plan.seed
     );
+    let _ = writeln!(out, "Recommendation\n  {}\n", super::advice::plan_advice(scenario, plan));
     let _ = writeln!(
         out,
         "Within ±1 of the best choice (share of histories, 95% Wilson interval), and the peak rule's regret"

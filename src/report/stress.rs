@@ -82,7 +82,8 @@ fn matrix(out: &mut String, stress: &StressResult, m: &RegretMatrix, title: &str
 pub fn stress_terminal(scenario: &Scenario, stress: &StressResult) -> String {
     let unit = period_word(scenario.periods_per_year);
     let mut out = String::new();
-    let _ = writeln!(out, "lagfold stress · {}", scenario.name);
+    let _ = writeln!(out, "lagfold stress · {}\n", scenario.name);
+    let _ = writeln!(out, "Recommendation\n  {}\n", super::advice::stress_advice(scenario, stress));
     let _ = writeln!(
         out,
         "  True curves and their optima (horizon by horizon IC, holding by net IR at {} bps)",

@@ -74,8 +74,8 @@ pub fn sweep_csv(rows: &[SweepPoint]) -> Vec<u8> {
 /// The terminal table: one line per grid point, or two (the point, then its
 /// figures) when the grid values are too long to share a line in 80 columns.
 pub fn sweep_terminal(rows: &[SweepPoint]) -> String {
-    let mut out =
-        String::from("lagfold sweep: within ±1 of the best choice (share of histories, 95% Wilson interval)\n");
+    let mut out = format!("Recommendation\n  {}\n\n", super::advice::sweep_advice(rows));
+    out.push_str("lagfold sweep: within ±1 of the best choice (share of histories, 95% Wilson interval)\n");
     let label = |r: &SweepPoint| r.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
     let width = rows.iter().map(|r| label(r).chars().count()).max().unwrap_or(10).max(10);
     let figures = 5 + 2 + 4 * 15;

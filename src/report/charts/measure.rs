@@ -21,16 +21,6 @@ fn with_bars(c: &Curve, label: &str) -> Layer {
 }
 
 /// Both charts of a measured panel.
-/// The period of the panel's calendar, plural: "months", "weeks", "business days", or "periods".
-fn periods(frequency: &str) -> &'static str {
-    match frequency {
-        "monthly" => "months",
-        "weekly" => "weeks",
-        "business-daily" => "business days",
-        _ => "periods",
-    }
-}
-
 /// The assets measured per date, in words: "270 to 290 assets per date (median 281)"
 /// (no dash: the PNG's title chunk is Latin-1).
 fn breadth(used: &[usize]) -> String {
@@ -45,7 +35,7 @@ fn breadth(used: &[usize]) -> String {
 
 pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
     let l = m.lagged_ic.mean.len();
-    let per = periods(&m.frequency);
+    let per = &*crate::report::calendar_units(&m.frequency);
     let zero = Layer::HLine { y: 0.0, colour: PALETTE.grey, label: String::new() };
     let lagged = Panel::Xy(XyPanel {
         heading: "lagged IC".into(),

@@ -149,7 +149,10 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
         .collect();
     Page {
         title: format!("lagfold measure: {}", m.file),
-        summary,
+        summary: vec![super::esc(
+            &crate::report::advice::measure_advice(m, &crate::report::calendar_units(&m.frequency)).unwrap_or_default(),
+        )],
+        key_figures: summary,
         charts,
         tables,
         parameters,

@@ -14,7 +14,7 @@ mod sweep;
 pub use measure::measure_page;
 pub use plan::plan_page;
 pub use stress::stress_page;
-pub use study::study_page;
+pub use study::{rule_name, study_page};
 pub use sweep::{sweep_page, sweep_parameters};
 
 use super::provenance::Made;

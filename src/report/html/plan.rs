@@ -15,13 +15,7 @@ pub fn plan_page(scenario: &Scenario, plan: &PlanResult, goal: &Goal, charts: Ve
     let last = plan.grid.len() - 1;
     let at = |i: usize| format!("/grid/{i}/rules/{}/{}", goal.rule.name(), goal.metric.field());
     let fmt = Fmt::Pct(1);
-    let goal_words = format!(
-        "the {} of the {} rule {} {}%",
-        goal.metric.describe(),
-        rule_name(goal.rule),
-        if goal.at_least { "at least" } else { "at most" },
-        crate::report::charts::trim(100.0 * goal.value)
-    );
+    let goal_words = crate::report::advice::goal_words(goal);
     let mut summary = vec![format!(
         "lagfold simulated {} histories on {} assets at each of {} history lengths, from {} to {} {unit}s, to see \
          how much history is needed before the measured best horizon can be trusted.",
@@ -95,7 +89,8 @@ pub fn plan_page(scenario: &Scenario, plan: &PlanResult, goal: &Goal, charts: Ve
     ));
     Page {
         title: format!("lagfold plan: {}", scenario.name),
-        summary,
+        summary: vec![super::esc(&crate::report::advice::plan_advice(scenario, plan))],
+        key_figures: summary,
         charts,
         tables: Vec::new(),
         parameters: serde_json::to_value(scenario).unwrap_or_default(),

@@ -75,7 +75,8 @@ pub fn stress_page(scenario: &Scenario, stress: &StressResult, charts: Vec<(Stri
     ));
     Page {
         title: format!("lagfold stress: {}", scenario.name),
-        summary,
+        summary: vec![super::esc(&crate::report::advice::stress_advice(scenario, stress))],
+        key_figures: summary,
         charts,
         tables: Vec::new(),
         parameters: serde_json::to_value(scenario).unwrap_or_default(),

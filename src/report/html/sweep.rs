@@ -91,7 +91,8 @@ pub fn sweep_page(
     }
     Page {
         title: format!("lagfold sweep: {name}"),
-        summary,
+        summary: vec![super::esc(&crate::report::advice::sweep_advice(points))],
+        key_figures: summary,
         charts,
         tables: vec![Table { heading: "The grid points".into(), header, rows }],
         parameters,
