@@ -85,11 +85,21 @@ pub fn measure_advice(m: &MeasureResult, unit: &str) -> Option<String> {
     })
 }
 
+/// `measure`: a measured peak at the longest horizon measured may lie beyond it.
+pub fn measure_edge(m: &MeasureResult) -> Option<String> {
+    (m.best_horizon.peak? == m.horizons).then(|| {
+        format!(
+            "the measured horizon IC peaks at the longest horizon measured ({}): the best horizon may lie beyond \
+             it; rerun with a longer --horizons (at most a quarter of the dates)",
+            m.horizons
+        )
+    })
+}
+
 /// A sweep: which grid points let the peak rule be trusted (within ±1 in at least 80 % of histories).
 pub fn sweep_advice(rows: &[SweepPoint]) -> String {
     let label = |r: &SweepPoint| r.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
-    let good: Vec<String> =
-        rows.iter().filter(|r| r.rules.get(Rule::Peak).near_hit_rate >= 0.8).map(label).collect();
+    let good: Vec<String> = rows.iter().filter(|r| r.rules.get(Rule::Peak).near_hit_rate >= 0.8).map(label).collect();
     match good.len() {
         0 => "At none of these settings does the measured horizon-IC peak land within one period of the true best \
               in 80% of histories: none gives a best horizon that can be trusted to that standard."

@@ -465,6 +465,9 @@ pub fn measure_terminal(m: &MeasureResult) -> String {
     if let Some(advice) = super::advice::measure_advice(m, &calendar_units(&m.frequency)) {
         let _ = writeln!(out, "\nRecommendation\n  {advice}\n");
     }
+    if let Some(w) = super::advice::measure_edge(m) {
+        out.push_str(&paragraph(&format!("warning: {w}")));
+    }
     for w in &m.warnings {
         out.push_str(&paragraph(&format!("warning: {w}")));
     }

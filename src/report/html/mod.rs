@@ -319,6 +319,12 @@ fn flatten(v: &serde_json::Value) -> Vec<(String, String)> {
                 }
             }
             serde_json::Value::String(s) => out.push((prefix.into(), s.clone())),
+            // A list of tables (stress alternatives) is shown one field per row.
+            serde_json::Value::Array(items) if !items.is_empty() && items.iter().all(serde_json::Value::is_object) => {
+                for (i, x) in items.iter().enumerate() {
+                    go(&format!("{prefix}[{i}]"), x, out);
+                }
+            }
             other => {
                 let mut s = other.to_string();
                 if s.chars().count() > 240 {
