@@ -85,6 +85,7 @@ fn check_report(dir: &Path, json: &str, charts: usize) -> Html {
     // The lead is the recommendation: a sentence or a few a committee can act on, the figures after it.
     assert!((1..=4).contains(&sentences), "the recommendation has {sentences} sentences: {lead}");
     assert!(page.select(&sel("#summary ul.key li")).count() >= 2, "key figures follow the recommendation");
+    assert!(page.select(&sel("#glossary dt")).count() >= 5, "a glossary");
 
     let doc: Value = serde_json::from_slice(&std::fs::read(dir.join(json)).unwrap()).unwrap();
     let figs: Vec<_> = page.select(&sel("span.fig")).collect();

@@ -14,7 +14,7 @@ mod panel_csv;
 mod plan;
 mod provenance;
 pub(crate) mod records;
-mod story;
+pub(crate) mod story;
 mod stress;
 mod summary;
 mod sweep;

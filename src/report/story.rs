@@ -234,6 +234,11 @@ pub const GLOSSARY: [(&str, &str); 7] = [
     ("net-IR rule", "choose the holding whose measured net IR is largest"),
 ];
 
+/// The glossary as every report shows it.
+pub fn glossary() -> Vec<(String, String)> {
+    GLOSSARY.iter().map(|(a, b)| (a.to_string(), b.to_string())).collect()
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -153,6 +153,7 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
             &crate::report::advice::measure_advice(m, &crate::report::calendar_units(&m.frequency)).unwrap_or_default(),
         )],
         key_figures: summary,
+        glossary: crate::report::story::glossary(),
         warnings: crate::report::advice::measure_edge(m).into_iter().collect(),
         charts,
         tables,

@@ -91,6 +91,7 @@ pub fn plan_page(scenario: &Scenario, plan: &PlanResult, goal: &Goal, charts: Ve
         title: format!("lagfold plan: {}", scenario.name),
         summary: vec![super::esc(&crate::report::advice::plan_advice(scenario, plan))],
         key_figures: summary,
+        glossary: crate::report::story::glossary(),
         charts,
         tables: Vec::new(),
         parameters: serde_json::to_value(scenario).unwrap_or_default(),

@@ -77,6 +77,7 @@ pub fn stress_page(scenario: &Scenario, stress: &StressResult, charts: Vec<(Stri
         title: format!("lagfold stress: {}", scenario.name),
         summary: vec![super::esc(&crate::report::advice::stress_advice(scenario, stress))],
         key_figures: summary,
+        glossary: crate::report::story::glossary(),
         charts,
         tables: Vec::new(),
         parameters: serde_json::to_value(scenario).unwrap_or_default(),

@@ -2,7 +2,7 @@
 
 use super::{ErrRow, Fmt, Page, fig, fig_opt, share_row};
 use crate::measure::rules::Rule;
-use crate::report::story::{GLOSSARY, Study, plain};
+use crate::report::story::{Study, plain};
 use crate::study::RuleStats;
 
 /// How the simulation, truth, estimators and rules work, with their sources.
@@ -156,7 +156,7 @@ pub fn study_page(story: &Study, charts: Vec<(String, String, String)>) -> Page 
         key_figures: story.key_figures(&tagged),
         warnings: story.warnings(),
         explain: vec![("Why the horizon-IC peak and the best holding differ".into(), story.why_optima_differ(&tagged))],
-        glossary: GLOSSARY.iter().map(|(a, b)| (a.to_string(), b.to_string())).collect(),
+        glossary: crate::report::story::glossary(),
         charts,
         tables: Vec::new(),
         parameters: serde_json::to_value(s).unwrap_or_default(),

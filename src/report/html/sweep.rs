@@ -93,6 +93,7 @@ pub fn sweep_page(
         title: format!("lagfold sweep: {name}"),
         summary: vec![super::esc(&crate::report::advice::sweep_advice(points))],
         key_figures: summary,
+        glossary: crate::report::story::glossary(),
         charts,
         tables: vec![Table { heading: "The grid points".into(), header, rows }],
         parameters,
