@@ -6,6 +6,7 @@
 
 use super::html::Fmt;
 use super::terminal::period_word;
+use super::text::fixed;
 use crate::portfolio::PortfolioTruth;
 use crate::study::{MoreHistory, Setup, StudyResult};
 use crate::truth::argmax1;
@@ -16,12 +17,11 @@ pub type Figure<'a> = &'a dyn Fn(&str, f64, Fmt) -> String;
 
 /// The plain writer of the terminal: no negative zero, percentages of shares.
 pub fn plain(_: &str, v: f64, f: Fmt) -> String {
-    let t = match f {
-        Fmt::Pct(d) => format!("{:.d$}%", 100.0 * v),
-        Fmt::Num(d) => format!("{v:.d$}"),
+    match f {
+        Fmt::Pct(d) => format!("{}%", fixed(100.0 * v, d)),
+        Fmt::Num(d) => fixed(v, d),
         Fmt::Plain => format!("{v}"),
-    };
-    if t.starts_with('-') && t.chars().all(|c| "-0.%".contains(c)) { t[1..].to_string() } else { t }
+    }
 }
 
 /// Everything the story is told from.
@@ -37,25 +37,12 @@ pub struct Study<'a> {
     pub more: Option<&'a MoreHistory>,
 }
 
-/// "month" or "months".
+/// "month" or "months" for a count that may be a whole-number quantile.
 fn units(n: f64, unit: &str) -> String {
-    if (n - 1.0).abs() < 1e-9 { unit.to_string() } else { format!("{unit}s") }
+    super::charts::units(n.round() as usize, unit)
 }
 
-/// "6–9" for a contiguous set, "3, 5–7" otherwise.
-pub fn ranges(xs: &[usize]) -> String {
-    let mut parts = Vec::new();
-    let mut i = 0;
-    while i < xs.len() {
-        let mut j = i;
-        while j + 1 < xs.len() && xs[j + 1] == xs[j] + 1 {
-            j += 1;
-        }
-        parts.push(if i == j { xs[i].to_string() } else { format!("{}–{}", xs[i], xs[j]) });
-        i = j + 1;
-    }
-    parts.join(", ")
-}
+pub use super::measure_out::ranges;
 
 /// A volatility as a percentage without trailing zeros: 0.04 → "4%", 0.045 → "4.5%".
 pub fn vol_pct(v: f64) -> String {

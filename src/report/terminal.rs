@@ -1,6 +1,7 @@
 //! The compact terminal summary: true curve and optimum, each rule's record,
 //! and one plain sentence.
 
+use super::charts::plural;
 use super::story::{GLOSSARY, Study, plain, ranges, vol_pct};
 use super::summary::CAUTION;
 use super::text::{pct, pct_se, share_ci};
@@ -27,10 +28,6 @@ fn adjective(unit: &str) -> String {
         "period" => "per-period".into(),
         u => format!("{u}ly"),
     }
-}
-
-fn plural(n: usize, word: &str) -> String {
-    if n == 1 { format!("1 {word}") } else { format!("{n} {word}s") }
 }
 
 /// The marker after a table row: the best choice, or one in the near-best set.

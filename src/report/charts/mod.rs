@@ -8,7 +8,7 @@ mod stress;
 mod study;
 
 pub use measure::measure_charts;
-pub use parts::{trim, units};
+pub use parts::{plural, trim, units};
 pub use plan::{plan_charts, sweep_charts};
 pub use stress::stress_charts;
 pub use study::{regret_bin_names, regret_shares, study_charts};
