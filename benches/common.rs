@@ -2,7 +2,7 @@
 //! Shared set-up for the benches: the default preset at the bench's size.
 
 use lagfold::scenario::{self, Overrides, presets};
-use lagfold::study::Setup;
+use lagfold::simulate::Setup;
 use std::time::Instant;
 
 /// The default preset at `N = 1000, T = 120, L = 24` with `paths` paths.
@@ -13,7 +13,7 @@ pub fn setup(paths: usize) -> Setup {
         horizons: Some(24),
         paths: Some(paths),
         seed: Some(7),
-        target_vol: None,
+        ..Overrides::default()
     };
     let s = scenario::load(presets::text(presets::DEFAULT).unwrap(), "bench", "bench", &ov).unwrap();
     Setup::new(s).unwrap()

@@ -11,7 +11,8 @@ use lagfold::generate::Workspace;
 use lagfold::measure::Measurement;
 use lagfold::portfolio::BookBuilder;
 use lagfold::rng::{fill_normal, path_rng};
-use lagfold::study::{Setup, Worker};
+use lagfold::simulate::Setup;
+use lagfold::study::Worker;
 use std::hint::black_box;
 
 /// NumPy implementation of one study path on one thread (NOTES.md), seconds.

@@ -8,7 +8,8 @@ use criterion::{Criterion, criterion_group};
 use lagfold::plan::{self, Goal};
 use lagfold::portfolio::PortfolioTruth;
 use lagfold::scenario::{self, Overrides, presets};
-use lagfold::study::{self, Setup};
+use lagfold::simulate::Setup;
+use lagfold::study;
 use std::hint::black_box;
 use std::time::Instant;
 
@@ -19,7 +20,7 @@ fn benches(c: &mut Criterion) {
         horizons: Some(24),
         paths: Some(200),
         seed: Some(7),
-        target_vol: None,
+        ..Overrides::default()
     };
     let s = scenario::load(presets::text(presets::DEFAULT).unwrap(), "bench", "bench", &ov).unwrap();
     let setup = Setup::new(s).unwrap();

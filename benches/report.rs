@@ -10,7 +10,7 @@ use lagfold::report::{self, ChartSet};
 use lagfold::study;
 use std::hint::black_box;
 
-fn draw(setup: &study::Setup, truth: &PortfolioTruth, result: &study::StudyResult) -> usize {
+fn draw(setup: &lagfold::simulate::Setup, truth: &PortfolioTruth, result: &study::StudyResult) -> usize {
     let set = ChartSet::render(&report::study_charts(setup, truth, result)).expect("charts draw");
     let story = report::Study { setup, portfolio: truth, study: result, more: None };
     let page = report::html::study_page(&story, set.inline);

@@ -7,7 +7,7 @@
 //! `cargo run --release --example se_coverage -- [preset] [paths] [assets]`
 
 use lagfold::scenario::{self, Overrides, presets};
-use lagfold::study::Setup;
+use lagfold::simulate::Setup;
 use lagfold::study::coverage::interval_coverage;
 
 fn main() {
@@ -21,20 +21,20 @@ fn main() {
     for name in names {
         let text = presets::text(&name).expect("a preset name");
         let base = scenario::load(text, &name, &name, &Overrides { assets, ..Overrides::default() }).unwrap();
-        let ov = Overrides { assets, horizons: Some(base.history / 4), ..Overrides::default() };
+        let ov = Overrides { assets, horizons: Some(base.history() / 4), ..Overrides::default() };
         let setup = Setup::new(scenario::load(text, &name, &name, &ov).unwrap()).unwrap();
         let c = interval_coverage(&setup, paths, 1, None);
         let s = &setup.scenario;
         println!(
             "\n{name}: {} assets × {} dates, horizons 1–{} (a quarter of the history), {paths} histories; ± {:.3}",
-            s.assets,
-            s.history,
-            s.horizons,
+            s.assets(),
+            s.history(),
+            s.horizons(),
             c.rate_se()
         );
         println!("     n   lagged IC  horizon IC  horizon IC, Newey–West + 1.96");
-        let step = (s.horizons / 8).max(1);
-        for n in (1..=s.horizons).filter(|n| *n <= 3 || n % step == 0 || *n == s.horizons) {
+        let step = (s.horizons() / 8).max(1);
+        for n in (1..=s.horizons()).filter(|n| *n <= 3 || n % step == 0 || *n == s.horizons()) {
             println!(
                 "  {n:>4}   {:>9.3}  {:>10.3}  {:>10.3}",
                 c.lagged[n - 1],

@@ -54,6 +54,17 @@ pub fn dates(n: usize, periods_per_year: f64) -> Vec<String> {
     }
 }
 
+/// Periods a year for a median gap between dates: 12, 52 or 252 when the gap
+/// is about a month, a week or a (business) day, else `365.25 / gap`.
+pub fn periods_per_year(gap_days: f64) -> f64 {
+    match gap_days {
+        g if (27.0..=32.0).contains(&g) => 12.0,
+        g if (6.0..=8.0).contains(&g) => 52.0,
+        g if (0.5..=1.5).contains(&g) => 252.0,
+        g => (365.25 / g.max(1.0)).round(),
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

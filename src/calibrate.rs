@@ -28,17 +28,6 @@ pub struct Measured<'a> {
     pub tails: Option<(f64, Option<f64>)>,
 }
 
-/// Periods a year for a median gap between dates: 12, 52 or 252 when the gap
-/// is about a month, a week or a (business) day, else `365.25 / gap`.
-pub fn periods_per_year(gap_days: f64) -> f64 {
-    match gap_days {
-        g if (27.0..=32.0).contains(&g) => 12.0,
-        g if (6.0..=8.0).contains(&g) => 52.0,
-        g if (0.5..=1.5).contains(&g) => 252.0,
-        g => (365.25 / g.max(1.0)).round(),
-    }
-}
-
 fn median(mut v: Vec<f64>) -> f64 {
     v.sort_by(f64::total_cmp);
     if v.is_empty() { f64::NAN } else { v[v.len() / 2] }
@@ -96,7 +85,7 @@ pub fn calibrated(m: &Measured, name: &str, paths: usize, seed: u64) -> Result<(
         }
     };
     let mut text = String::new();
-    let ppy = periods_per_year(m.median_gap_days);
+    let ppy = crate::calendar::periods_per_year(m.median_gap_days);
     let vol = if vol.is_finite() && vol > 0.0 { vol } else { 0.01 };
     let rho = m.forecast_autocorrelation.unwrap_or(0.0).clamp(-0.98, 0.98);
     let psi = m.ic_persistence.unwrap_or(0.0).clamp(0.0, 0.95);
@@ -160,7 +149,7 @@ pub fn calibrated(m: &Measured, name: &str, paths: usize, seed: u64) -> Result<(
     }
     let s = scenario::load(&text, "calibrated.toml", name, &Overrides::default()).map_err(|e| e.to_string())?;
     // The model and its truth must exist too (a negative fitted IC has no optimum).
-    crate::study::Setup::new(s.clone()).map_err(|e| e.to_string())?;
+    crate::simulate::Setup::new(s.clone()).map_err(|e| e.to_string())?;
     Ok((text, s))
 }
 

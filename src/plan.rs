@@ -5,9 +5,11 @@
 //! the history is cut shorter, so each path is measured once and every grid
 //! point reads a prefix (MODEL.md §6).
 
-use crate::measure::rules::{self, Rule};
+use crate::measure::rules;
 use crate::portfolio::PortfolioTruth;
-use crate::study::{Outcomes, PathOutcome, RuleStats, RulesOut, Setup, Worker, aggregate, run_in_order};
+use crate::rule::Rule;
+use crate::simulate::{Setup, run_in_order};
+use crate::study::{Outcomes, PathOutcome, RuleStats, RulesOut, Worker, aggregate};
 use serde::Serialize;
 use std::fmt;
 
@@ -113,7 +115,7 @@ impl Goal {
                        net_ir; metric one of hit, near-hit, near-best, regret; value in [0, 1]";
         let (rule, rest) = match text.split_once(':') {
             Some((r, rest)) => {
-                let rule = [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr]
+                let rule = Rule::EVERY
                     .into_iter()
                     .find(|x| x.name() == r.trim())
                     .ok_or_else(|| format!("unknown rule `{r}` in target `{text}`: {allowed}"))?;

@@ -11,6 +11,7 @@
 use crate::calendar::{days_from_civil, iso};
 use crate::measure::Panel;
 use crate::measure::neutralise::Covariates;
+pub use crate::rows::Column;
 use std::collections::HashMap;
 use std::path::{Path, PathBuf};
 
@@ -397,6 +398,23 @@ pub fn read_panel_bytes(name: &Path, bytes: Vec<u8>, opts: &ReadOptions) -> Resu
     check_roles(name, opts)?;
     let src = crate::rows::Rows::from_bytes(bytes)
         .map_err(|e| ReadError::Io { path: name.to_path_buf(), message: e.to_string() })?;
+    read_rows(name, src, opts)
+}
+
+/// Reads a panel from named columns held in memory (a data frame's), with
+/// the checks of a file; `name` names it in messages and a row's number is
+/// its 1-based position.
+///
+/// # Errors
+/// Every [`ReadError`], naming `name` and the row.
+pub fn read_panel_columns(
+    name: &Path,
+    columns: Vec<(String, Column)>,
+    opts: &ReadOptions,
+) -> Result<ReadPanel, ReadError> {
+    check_roles(name, opts)?;
+    let src = crate::rows::Rows::from_columns(columns)
+        .map_err(|message| ReadError::Io { path: name.to_path_buf(), message })?;
     read_rows(name, src, opts)
 }
 

@@ -19,6 +19,41 @@ pub enum Rows {
     Csv(Box<csv::Reader<Box<dyn Read>>>, Vec<String>),
     /// An Apache Parquet file; the counter is the rows read.
     Parquet(Box<RowIter<'static>>, Vec<String>, u64, QuietPanics),
+    /// Columns held in memory (a data frame's); the counter is the rows read.
+    Columns(Vec<Column>, Vec<String>, usize),
+}
+
+/// One column held in memory.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Column {
+    /// Numbers; NaN is missing. Each becomes its shortest exact text, so it
+    /// is read back as the same number.
+    Numbers(Vec<f64>),
+    /// Text (dates, asset names, group labels); `None` is missing.
+    Text(Vec<Option<String>>),
+}
+
+impl Column {
+    /// Its length.
+    pub fn len(&self) -> usize {
+        match self {
+            Column::Numbers(v) => v.len(),
+            Column::Text(v) => v.len(),
+        }
+    }
+
+    /// Whether it has no rows.
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    fn field(&self, i: usize) -> String {
+        match self {
+            Column::Numbers(v) if v[i].is_nan() => String::new(),
+            Column::Numbers(v) => v[i].to_string(),
+            Column::Text(v) => v[i].as_deref().unwrap_or("").trim().to_string(),
+        }
+    }
 }
 
 type Hook = Box<dyn Fn(&std::panic::PanicHookInfo<'_>) + Sync + Send + 'static>;
@@ -159,16 +194,36 @@ impl Rows {
         Self::csv(Box::new(std::io::Cursor::new(bytes)))
     }
 
+    /// Named columns held in memory, all of one length.
+    ///
+    /// # Errors
+    /// Columns of different lengths, naming them.
+    pub fn from_columns(columns: Vec<(String, Column)>) -> Result<Self, String> {
+        if let Some((first, rest)) = columns.split_first()
+            && let Some((name, c)) = rest.iter().find(|(_, c)| c.len() != first.1.len())
+        {
+            return Err(format!(
+                "column `{name}` has {} rows but column `{}` has {}; every column needs one value per row",
+                c.len(),
+                first.0,
+                first.1.len()
+            ));
+        }
+        let (header, data) = columns.into_iter().unzip();
+        Ok(Rows::Columns(data, header, 0))
+    }
+
     /// The column names.
     pub fn header(&self) -> &[String] {
         match self {
-            Rows::Csv(_, h) | Rows::Parquet(_, h, ..) => h,
+            Rows::Csv(_, h) | Rows::Parquet(_, h, ..) | Rows::Columns(_, h, _) => h,
         }
     }
 
-    /// Whether the source is Parquet.
+    /// Whether rows are counted as rows with a schema (Parquet, columns in
+    /// memory) rather than as lines under a header (CSV).
     pub fn is_parquet(&self) -> bool {
-        matches!(self, Rows::Parquet(..))
+        matches!(self, Rows::Parquet(..) | Rows::Columns(..))
     }
 
     /// Reads the next row into `record`; its 1-based line (CSV) or row
@@ -194,6 +249,15 @@ impl Rows {
                     Ok(Some(*n))
                 }
             },
+            Rows::Columns(data, _, n) => {
+                if data.first().is_none_or(|c| *n >= c.len()) {
+                    return Ok(None);
+                }
+                record.clear();
+                data.iter().for_each(|c| record.push_field(&c.field(*n)));
+                *n += 1;
+                Ok(Some(*n as u64))
+            }
         }
     }
 }

@@ -107,6 +107,24 @@ pub fn quantile_discrete(sorted: &[f64], q: f64) -> f64 {
 /// Quantile band levels reported for curves.
 pub const BAND_LEVELS: [f64; 5] = [0.05, 0.25, 0.5, 0.75, 0.95];
 
+/// 1-based index of the first maximum.
+pub fn argmax1(xs: &[f64]) -> usize {
+    let mut best = 0;
+    for (i, &x) in xs.iter().enumerate() {
+        if x > xs[best] {
+            best = i;
+        }
+    }
+    best + 1
+}
+
+/// 1-based horizons whose value is within `tol·peak` of the peak (`peak > 0`).
+pub fn near_set(h: &[f64], tol: f64) -> Vec<usize> {
+    let peak = h[argmax1(h) - 1];
+    let floor = peak - tol * peak.abs();
+    (1..=h.len()).filter(|&n| h[n - 1] >= floor).collect()
+}
+
 #[cfg(test)]
 mod tests {
 

@@ -7,8 +7,8 @@ use crate::decay::DecayCurve;
 use crate::error::ScenarioError;
 use crate::portfolio::PortfolioTruth;
 use crate::scenario::Scenario;
-use crate::study::Setup;
-use crate::truth::argmax1;
+use crate::simulate::Setup;
+use crate::stats::argmax1;
 use serde::Serialize;
 
 /// How many times faster or slower the default alternatives decay.
@@ -128,9 +128,7 @@ pub fn run(
     curves.extend(scenario.alternatives.iter().cloned());
     let mut out = Vec::with_capacity(curves.len());
     for (i, (name, decay)) in curves.into_iter().enumerate() {
-        let mut s = scenario.clone();
-        s.decay = decay;
-        let setup = Setup::new(s).map_err(|e| (name.clone(), e))?;
+        let setup = Setup::new(scenario.with_decay(decay)).map_err(|e| (name.clone(), e))?;
         let p = PortfolioTruth::compute(&setup, threads, &|_| {});
         out.push(CurveTruth {
             name,

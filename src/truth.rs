@@ -12,6 +12,7 @@
 use crate::error::ScenarioError;
 use crate::model::Model;
 use crate::rng::{fill_normal, path_rng};
+use crate::stats::{argmax1, near_set};
 use serde::Serialize;
 
 /// Antithetic pairs of shock paths used to integrate the per-date horizon IC.
@@ -48,17 +49,6 @@ pub struct Truth {
     pub loadings_used: usize,
     /// How the generator applies the loadings.
     pub generator: String,
-}
-
-/// 1-based index of the first maximum.
-pub fn argmax1(xs: &[f64]) -> usize {
-    let mut best = 0;
-    for (i, &x) in xs.iter().enumerate() {
-        if x > xs[best] {
-            best = i;
-        }
-    }
-    best + 1
 }
 
 impl Truth {
@@ -110,13 +100,6 @@ impl Truth {
     pub fn h(&self, n: usize) -> f64 {
         self.horizon_ic[n - 1]
     }
-}
-
-/// 1-based horizons whose value is within `tol·peak` of the peak (`peak > 0`).
-pub fn near_set(h: &[f64], tol: f64) -> Vec<usize> {
-    let peak = h[argmax1(h) - 1];
-    let floor = peak - tol * peak.abs();
-    (1..=h.len()).filter(|&n| h[n - 1] >= floor).collect()
 }
 
 /// `Σ_{k≤n} x_k / sqrt(var(n))` for `n = 1..=len`.

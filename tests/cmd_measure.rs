@@ -5,8 +5,8 @@ use lagfold::generate::Workspace;
 use lagfold::measure::Measurement;
 use lagfold::rng::path_rng;
 use lagfold::scenario::{self, Overrides, presets};
+use lagfold::simulate::Setup;
 use lagfold::stats::CHECK_SIGMAS;
-use lagfold::study::Setup;
 use serde_json::Value;
 use std::path::Path;
 

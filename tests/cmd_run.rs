@@ -247,7 +247,7 @@ fn presets_are_listed_and_print_as_valid_scenarios() {
         let t = lagfold().args(["presets", name]).assert().success();
         let toml = String::from_utf8(t.get_output().stdout.clone()).unwrap();
         let s = lagfold::scenario::load(&toml, name, name, &Default::default()).unwrap();
-        lagfold::study::Setup::new(s).unwrap();
+        lagfold::simulate::Setup::new(s).unwrap();
     }
     assert!(text.contains("(demo)"));
 }

@@ -6,7 +6,8 @@ mod common;
 use common::setup;
 use lagfold::plan::{self, Goal};
 use lagfold::portfolio::PortfolioTruth;
-use lagfold::study::{self, Setup};
+use lagfold::simulate::Setup;
+use lagfold::study;
 
 fn scenario(history: usize, extra: &str) -> String {
     format!(

@@ -8,8 +8,8 @@ mod common;
 
 use common::setup;
 use lagfold::portfolio::PortfolioTruth;
+use lagfold::simulate::Setup;
 use lagfold::stats::Moments;
-use lagfold::study::Setup;
 
 fn truth(toml: &str) -> (Setup, PortfolioTruth) {
     let s = setup(toml);
@@ -114,7 +114,7 @@ fn costs_never_raise_the_net_ir() {
         "assets = 300\nhistory = 80\nhorizons = 10\nforecast_autocorrelation = 0.5\nic_vol = 0.05\n\
          [decay]\nfamily = \"hump\"\npeak = 0.04\npeak_lag = 3\n[portfolio]\nreference_paths = 50\n",
     );
-    let ppy = s.scenario.periods_per_year;
+    let ppy = s.scenario.periods_per_year();
     for (h, sums) in t.linear_sums.iter().enumerate() {
         let irs: Vec<f64> = [0.0, 5.0, 10.0, 20.0, 40.0, 80.0].iter().map(|bps| sums.ir(bps * 1e-4, ppy)).collect();
         assert!(irs.windows(2).all(|w| w[1] <= w[0]), "h {}: {irs:?}", h + 1);

@@ -57,7 +57,7 @@ fn rank_ic_intervals_cover_the_spearman_truth() {
         "assets = 200\nhistory = 100\nhorizons = 25\nforecast_autocorrelation = 0.8\nic_vol = 0\nrank_ic = true\n\
          [decay]\nfamily = \"exponential\"\nic1 = 0.06\nhalf_life = 3\n",
     );
-    let n = s.scenario.assets as f64;
+    let n = s.scenario.assets() as f64;
     let moran: Vec<f64> =
         s.truth.lagged_ic.iter().map(|r| 6.0 / (PI * (n + 1.0)) * (r.asin() + (n - 2.0) * (r / 2.0).asin())).collect();
     let c = interval_coverage(&s, PATHS, 7, Some(&moran));

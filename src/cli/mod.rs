@@ -1,7 +1,6 @@
 //! The command line, apart from the engine: parse options, read the scenario,
 //! run, write, report. Exit codes: 0 ok, 1 failure, 2 bad input.
 
-mod compare;
 mod measure;
 mod panel;
 mod plan;
@@ -93,18 +92,12 @@ impl Failure {
     }
 }
 
-/// Refuses to write a result holding a number that is not finite (JSON would
-/// show it as `null`, a table as `NaN`).
-///
-/// # Errors
-/// The path and value of the first such number (exit code 1).
-pub(crate) fn finite<T: serde::Serialize + ?Sized>(result: &T) -> Result<(), Failure> {
-    match crate::report::first_non_finite(result) {
-        None => Ok(()),
-        Some((path, v)) => Err(Failure::other(format!(
-            "a result is not finite ({path} = {v}), so nothing was written; this is a bug or an input at the \
-             edge of the model: please report it with the scenario or panel"
-        ))),
+impl From<crate::api::Error> for Failure {
+    fn from(e: crate::api::Error) -> Self {
+        match e {
+            crate::api::Error::Input(m) => Self { code: 2, message: m },
+            crate::api::Error::Failure(m) => Self { code: 1, message: m },
+        }
     }
 }
 
@@ -144,18 +137,6 @@ pub(crate) fn print(text: &str) -> Result<(), Failure> {
     match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
         Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => Err(Failure::other(e)),
         _ => Ok(()),
-    }
-}
-
-/// Draws the charts unless `--no-charts`.
-pub(crate) fn charts(
-    skip: bool,
-    build: impl FnOnce() -> Vec<crate::chart::Chart>,
-) -> Result<crate::report::ChartSet, Failure> {
-    if skip {
-        Ok(crate::report::ChartSet::default())
-    } else {
-        crate::report::ChartSet::render(&build()).map_err(Failure::other)
     }
 }
 

@@ -3,12 +3,8 @@
 
 use super::run::read_scenario;
 use super::{Failure, print};
-use crate::calendar;
-use crate::generate::Workspace;
-use crate::report::write_panel;
-use crate::rng::path_rng;
+use crate::api;
 use crate::scenario::Overrides;
-use crate::study::Setup;
 use std::path::{Path, PathBuf};
 
 /// Options of `panel`.
@@ -40,19 +36,14 @@ pub struct PanelArgs {
 /// `lagfold panel`.
 pub fn run(a: &PanelArgs) -> Result<(), Failure> {
     let ov = Overrides { assets: a.assets, history: a.history, seed: a.seed, ..Overrides::default() };
-    let scenario = read_scenario(&a.scenario, &ov)?;
+    let (scenario, origin) = read_scenario(&a.scenario, &ov)?;
     let out = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-panel.csv", scenario.name)));
     // The destination is checked, and its temporary file created, before any work.
     let target = if out.as_os_str() == "-" { None } else { Some(Target::claim(&out).map_err(Failure::input)?) };
-    let origin = a.scenario.display().to_string();
-    let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
-    let s = &setup.scenario;
-    let mut ws = Workspace::default();
-    setup.generator.simulate(&mut path_rng(s.seed, a.path), &mut ws);
-    let dates = calendar::dates(s.history, s.periods_per_year);
+    let sim = api::simulate_panel(&scenario, &origin, a.path)?;
     let Some(target) = target else {
         let stdout = std::io::stdout().lock();
-        return match write_panel(&ws.panel, &dates, s.residual_vol, std::io::BufWriter::new(stdout)) {
+        return match sim.write_csv(std::io::BufWriter::new(stdout)) {
             Err(e) if matches!(e.kind(), csv::ErrorKind::Io(io) if io.kind() == std::io::ErrorKind::BrokenPipe) => {
                 Ok(())
             }
@@ -60,7 +51,7 @@ pub fn run(a: &PanelArgs) -> Result<(), Failure> {
         };
     };
     let file = target.file.try_clone().map_err(|e| Failure::other(format!("{}: {e}", target.tmp.display())))?;
-    write_panel(&ws.panel, &dates, s.residual_vol, std::io::BufWriter::new(file))
+    sim.write_csv(std::io::BufWriter::new(file))
         .and_then(|()| target.file.sync_all().map_err(csv::Error::from))
         .map_err(|e| Failure::other(format!("{}: {e}", target.tmp.display())))?;
     target.finish()?;
@@ -68,10 +59,10 @@ pub fn run(a: &PanelArgs) -> Result<(), Failure> {
         print(&format!(
             "Wrote {} ({} dates × {} assets, history {} of seed {}): date, asset, forecast, forward return over the period starting at the date.\n",
             out.display(),
-            s.history,
-            s.assets,
+            sim.dates.len(),
+            sim.panel.assets,
             a.path,
-            s.seed
+            sim.seed
         ))?;
     }
     Ok(())

@@ -2,10 +2,12 @@
 //! truth → run the study → write outputs → print the summary.
 
 use super::{Failure, print, progress};
+use crate::api;
 use crate::portfolio::PortfolioTruth;
-use crate::report::{self, Summary};
+use crate::report;
 use crate::scenario::{self, Overrides, Scenario, presets, sweep};
-use crate::study::{self, Setup};
+use crate::simulate::Setup;
+use crate::study;
 use std::path::{Path, PathBuf};
 
 /// Options shared by `run` and `demo`.
@@ -58,10 +60,6 @@ pub struct RunArgs {
     pub study: StudyArgs,
 }
 
-/// Most `--cost-bps` levels in one run (each is a row of the cost table and
-/// a line on the cost chart).
-pub const MAX_COST_LEVELS: usize = 50;
-
 impl StudyArgs {
     /// The `--cost-bps` values, each checked, at most `most` of them (`what`
     /// says why a command takes fewer).
@@ -69,15 +67,9 @@ impl StudyArgs {
     /// # Errors
     /// A level outside [0, 10000) or too many levels.
     pub fn costs(&self, most: usize, what: &str) -> Result<&[f64], Failure> {
-        if self.cost_bps.len() > most {
-            return Err(Failure::input(format!(
-                "option --cost-bps: {} levels given; {what} takes at most {most}",
-                self.cost_bps.len()
-            )));
-        }
+        api::check_costs(&self.cost_bps, most, what)?;
         for (i, &c) in self.cost_bps.iter().enumerate() {
             let key = if self.cost_bps.len() > 1 { format!("--cost-bps value {}", i + 1) } else { "--cost-bps".into() };
-            scenario::check_cost_bps(&key, c).map_err(|e| Failure::input(format!("option {e}")))?;
             if let Some(w) = scenario::implausible_cost(&format!("option {key}"), c)
                 && !self.quiet
             {
@@ -96,28 +88,14 @@ impl StudyArgs {
             paths: self.paths,
             seed: self.seed,
             target_vol: self.target_vol,
+            ..Default::default()
         }
     }
-}
 
-/// The portfolio truth's reference simulation, then the study, each with its
-/// progress bar.
-pub fn truth_and_study(setup: &Setup, a: &StudyArgs, sweep: &[f64]) -> (PortfolioTruth, study::StudyResult) {
-    let s = &setup.scenario;
-    progress::warn_long(
-        study_asset_dates(s),
-        &histories_words(s.paths + s.portfolio.reference_paths, s),
-        threads(a),
-        a.quiet,
-    );
-    let (threads, s) = (threads(a), &setup.scenario);
-    let bar = progress::bar(s.portfolio.reference_paths, a.quiet, "reference");
-    let portfolio = PortfolioTruth::compute(setup, threads, &|done| bar.set_position(done as u64));
-    bar.finish_and_clear();
-    let bar = progress::bar(s.paths, a.quiet, "study");
-    let result = study::run(setup, &portfolio, sweep, threads, &|done| bar.set_position(done as u64));
-    bar.finish_and_clear();
-    (portfolio, result)
+    /// The one cost level, if exactly one is given.
+    pub fn one_cost(&self) -> Option<f64> {
+        if let [c] = self.cost_bps[..] { Some(c) } else { None }
+    }
 }
 
 /// Worker threads: `--threads`, or every core.
@@ -125,12 +103,12 @@ pub fn threads(a: &StudyArgs) -> usize {
     a.threads.map_or_else(|| std::thread::available_parallelism().map_or(1, |n| n.get()), usize::from)
 }
 
-/// Reads a scenario from a file, or from a preset when no such file exists.
-pub fn read_scenario(path: &Path, ov: &Overrides) -> Result<Scenario, Failure> {
-    let (text, origin, stem) = read_text(path)?;
-    let s = scenario::load(&text, &origin, &stem, ov).map_err(Failure::input)?;
+/// Reads a scenario from a file, or from a preset when no such file exists,
+/// and warns of implausible values; also its origin for messages.
+pub fn read_scenario(path: &Path, ov: &Overrides) -> Result<(Scenario, String), Failure> {
+    let (s, origin) = api::load_scenario(path, ov)?;
     warn_implausible(&[&s], &origin);
-    Ok(s)
+    Ok((s, origin))
 }
 
 /// Prints the implausible values of the scenarios (a sweep's grid points)
@@ -145,38 +123,14 @@ pub fn warn_implausible(scenarios: &[&Scenario], origin: &str) {
     }
 }
 
-/// "`n` histories of `N` assets × `T` dates".
-pub fn histories_words(n: usize, s: &Scenario) -> String {
-    format!("{n} histories of {} assets × {} dates", s.assets, s.history)
-}
-
 /// Asset-dates simulated by a study of `s` and its reference simulation.
-pub fn study_asset_dates(s: &Scenario) -> f64 {
+fn study_asset_dates(s: &Scenario) -> f64 {
     (s.paths + s.portfolio.reference_paths) as f64 * s.assets as f64 * s.history as f64
-}
-
-/// The text of a scenario file (or preset), its origin for messages and its default name.
-fn read_text(path: &Path) -> Result<(String, String, String), Failure> {
-    let name = path.to_string_lossy();
-    if !path.exists() && presets::ALL.iter().any(|(n, _)| *n == name) {
-        let text = presets::text(&name).map_err(Failure::input)?;
-        return Ok((text.to_string(), format!("preset {name}"), name.into_owned()));
-    }
-    let text = std::fs::read_to_string(path).map_err(|e| {
-        let hint = if e.kind() == std::io::ErrorKind::NotFound {
-            format!("; not a scenario file, nor a preset: {}", presets::known_words(&name))
-        } else {
-            String::new()
-        };
-        Failure::input(crate::error::InputError::Read { path: path.to_path_buf(), source: e, hint })
-    })?;
-    let stem = path.file_stem().map_or_else(|| "scenario".into(), |s| scenario::name_from_file(&s.to_string_lossy()));
-    Ok((text, path.display().to_string(), stem))
 }
 
 /// `lagfold run`: one scenario, or the grid of a sweep file.
 pub fn run(a: &RunArgs) -> Result<(), Failure> {
-    let (text, origin, stem) = read_text(&a.scenario)?;
+    let (text, origin, stem) = api::scenario_text(&a.scenario)?;
     // A file that reads as one scenario is one (a seed above 2^63 − 1 would
     // not survive the generic TOML table a sweep is read through).
     let axes = match scenario::parse(&text, &origin) {
@@ -207,22 +161,21 @@ fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(),
     let mut done = 0;
     let mut rows = Vec::with_capacity(points.len());
     for p in points {
-        let mut s = p.scenario.clone();
-        if let [one] = a.costs(1, "a sweep (put a list of cost_bps under [portfolio] to sweep costs)")? {
-            s.portfolio.cost_bps = *one;
-        }
+        a.costs(1, "a sweep (put a list of cost_bps under [portfolio] to sweep costs)")?;
         let label = p.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
-        let setup = Setup::new(s).map_err(|e| Failure::input(format!("{origin} (grid point {label}): {e}")))?;
+        let at = |e: &dyn std::fmt::Display| Failure::input(format!("{origin} (grid point {label}): {e}"));
+        let s = p.scenario.revised(&Overrides { cost_bps: a.one_cost(), ..Default::default() }).map_err(|e| at(&e))?;
+        let setup = Setup::new(s).map_err(|e| at(&e))?;
         let portfolio = PortfolioTruth::compute(&setup, threads, &|_| {});
         let result = study::run(&setup, &portfolio, &[], threads, &|d| bar.set_position((done + d) as u64));
         done += setup.scenario.paths;
         rows.push(report::SweepPoint::new(p, &setup, &portfolio, result));
     }
     bar.finish_and_clear();
-    super::finite(&rows)?;
+    api::finite(&rows)?;
     let mut files =
         vec![("sweep.json".to_string(), report::sweep_json(&rows)), ("sweep.csv".into(), report::sweep_csv(&rows))];
-    let charts = super::charts(a.no_charts, || report::sweep_charts(&rows))?;
+    let charts = api::charts(!a.no_charts, || report::sweep_charts(&rows))?;
     files.extend(charts.files);
     let parameters = report::html::sweep_parameters(points);
     let page = report::html::sweep_page(name, &rows, parameters, charts.inline);
@@ -244,37 +197,16 @@ pub fn demo(a: &StudyArgs) -> Result<(), Failure> {
     execute(scenario, a, &origin)
 }
 
-fn execute(mut scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
-    if let [one] = a.costs(MAX_COST_LEVELS, "`run`")?[..] {
-        scenario.portfolio.cost_bps = one;
-    }
+fn execute(scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
+    a.costs(api::MAX_COST_LEVELS, "`run`")?;
     let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(&scenario.name));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
-    let setup = Setup::new(scenario).map_err(|e| Failure::input(format!("{origin}: {e}")))?;
-    let sweep = if a.cost_bps.len() > 1 { a.cost_bps.clone() } else { Vec::new() };
-    let (portfolio, result) = truth_and_study(&setup, a, &sweep);
-    let bar = progress::bar(setup.scenario.paths.min(study::MORE_HISTORY_PATHS), a.quiet, "twice the history");
-    let more = study::more_history(&setup, &portfolio, threads(a), &|done| bar.set_position(done as u64));
-    bar.finish_and_clear();
-    let story = report::Study { setup: &setup, portfolio: &portfolio, study: &result, more: more.as_ref() };
-    let summary = Summary::new(&story);
-    super::finite(&summary)?;
-    let mut files = vec![
-        ("summary.json".to_string(), report::summary_json(&summary)),
-        ("curves.csv".into(), report::curves_csv(&setup, &result)),
-        ("choices.csv".into(), report::choices_csv(&setup, &result)),
-        ("holding.csv".into(), report::holding_csv(&portfolio, &result)),
-    ];
-    if !sweep.is_empty() {
-        files.push(("cost_sweep.csv".into(), report::cost_sweep_csv(&result)));
-    }
-    let charts = super::charts(a.no_charts, || report::study_charts(&setup, &portfolio, &result))?;
-    files.extend(charts.files);
-    let page = report::html::study_page(&story, charts.inline);
-    files.push(("report.html".into(), report::html::render(&page, &report::Made::now())));
+    let options = api::StudyOptions { threads: threads(a), cost_bps: a.cost_bps.clone(), more_history: true };
+    let outcome = api::study(&scenario, origin, &options, &progress::Bars::new(a.quiet))?;
+    let files = outcome.files(!a.no_charts, &report::Made::now())?;
     out.commit(&files).map_err(Failure::other)?;
     if !a.quiet {
-        let mut text = report::terminal_summary(&story);
+        let mut text = outcome.terminal();
         text.push_str(&super::outputs_line(&out_dir, &files));
         print(&text)?;
     }

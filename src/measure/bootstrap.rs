@@ -8,6 +8,7 @@
 use super::PerDate;
 use super::rules;
 use crate::rng::path_rng;
+use crate::rule::PerRule;
 use rand::RngExt;
 
 /// The dates of one stationary-bootstrap resample of `m` dates, as counts per date.
@@ -49,7 +50,7 @@ pub fn choices(
     block: f64,
     replicates: usize,
     seed: u64,
-) -> Vec<[Option<usize>; 3]> {
+) -> Vec<PerRule<Option<usize>>> {
     let mut counts = Vec::new();
     (0..replicates as u64)
         .map(|b| {

@@ -1,47 +1,8 @@
 //! Rules that pick the estimated optimal horizon `n̂` from one measurement.
 
 use super::fit::{self, Family};
-use crate::truth::argmax1;
-use serde::Serialize;
-
-/// The rules compared in the study.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
-#[serde(rename_all = "snake_case")]
-pub enum Rule {
-    /// Peak of the measured horizon-IC curve.
-    Peak,
-    /// Peak of `Σ_{k≤n} IC_k / sqrt(n)` built from measured lagged ICs.
-    Formula,
-    /// Optimum implied by a decay curve fitted to measured lagged ICs.
-    Fitted,
-    /// Holding length with the best measured net information ratio (portfolios).
-    NetIr,
-}
-
-impl Rule {
-    /// Every horizon rule, in report order.
-    pub const ALL: [Rule; 3] = [Rule::Peak, Rule::Formula, Rule::Fitted];
-
-    /// The rule's name in outputs.
-    pub fn name(self) -> &'static str {
-        match self {
-            Rule::Peak => "peak",
-            Rule::Formula => "formula",
-            Rule::Fitted => "fitted",
-            Rule::NetIr => "net_ir",
-        }
-    }
-
-    /// One line saying what the rule does.
-    pub fn describe(self) -> &'static str {
-        match self {
-            Rule::Peak => "peak of the measured horizon IC",
-            Rule::Formula => "peak of sum of measured lagged ICs / sqrt(n)",
-            Rule::Fitted => "optimum of a decay curve fitted to measured lagged ICs (family by AIC)",
-            Rule::NetIr => "holding length with the best measured net information ratio of the tranche book",
-        }
-    }
-}
+use crate::rule::PerRule;
+use crate::stats::argmax1;
 
 /// `Σ_{k≤n} x_k / sqrt(n)` for `n = 1..=len` (Qian, Hua and Sorensen, 2007).
 pub fn formula_curve(lagged: &[f64]) -> Vec<f64> {
@@ -59,8 +20,8 @@ pub fn formula_curve(lagged: &[f64]) -> Vec<f64> {
 /// The choices of every rule (1-based horizons) and the fitted family.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Choices {
-    /// `n̂` per rule, in [`Rule::ALL`] order.
-    pub horizon: [usize; 3],
+    /// `n̂` per rule.
+    pub horizon: PerRule<usize>,
     /// The family the fitted rule chose.
     pub family: Family,
 }
@@ -69,7 +30,11 @@ pub struct Choices {
 pub fn choose(lagged: &[f64], lagged_se: &[Option<f64>], horizon: &[f64]) -> Choices {
     let f = fit::best_fit(lagged, lagged_se);
     Choices {
-        horizon: [argmax1(horizon), argmax1(&formula_curve(lagged)), argmax1(&formula_curve(&f.curve))],
+        horizon: PerRule {
+            peak: argmax1(horizon),
+            formula: argmax1(&formula_curve(lagged)),
+            fitted: argmax1(&formula_curve(&f.curve)),
+        },
         family: f.family,
     }
 }
@@ -78,11 +43,11 @@ pub fn choose(lagged: &[f64], lagged_se: &[Option<f64>], horizon: &[f64]) -> Cho
 /// measurable: the peak rule needs every mean horizon IC, the formula rule
 /// every mean lagged IC, the fitted rule those and their standard errors (the
 /// fit's weights), and a finite fit.
-pub fn choose_measured(lagged: &[f64], lagged_se: &[Option<f64>], horizon: &[f64]) -> [Option<usize>; 3] {
+pub fn choose_measured(lagged: &[f64], lagged_se: &[Option<f64>], horizon: &[f64]) -> PerRule<Option<usize>> {
     let all_finite = |x: &[f64]| !x.is_empty() && x.iter().all(|v| v.is_finite());
     let peak = all_finite(horizon).then(|| argmax1(horizon));
     if !all_finite(lagged) {
-        return [peak, None, None];
+        return PerRule { peak, formula: None, fitted: None };
     }
     let formula = Some(argmax1(&formula_curve(lagged)));
     let weighted = lagged_se.iter().all(|s| s.is_some_and(|s| s.is_finite() && s > 0.0));
@@ -90,5 +55,5 @@ pub fn choose_measured(lagged: &[f64], lagged_se: &[Option<f64>], horizon: &[f64
         .then(|| fit::best_fit(lagged, lagged_se))
         .filter(|f| all_finite(&f.curve))
         .map(|f| argmax1(&formula_curve(&f.curve)));
-    [peak, formula, fitted]
+    PerRule { peak, formula, fitted }
 }

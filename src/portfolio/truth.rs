@@ -17,12 +17,9 @@
 
 use super::books::{BookBuilder, PathBooks};
 use super::sums::BookSums;
-use crate::generate::Workspace;
-use crate::measure::Measurement;
-use crate::rng::path_rng;
+use crate::simulate::{PathWorker, Setup, run_in_order};
 use crate::stats::Moments;
-use crate::study::{Setup, run_in_order};
-use crate::truth::{argmax1, near_set};
+use crate::stats::{argmax1, near_set};
 use serde::Serialize;
 
 /// Fixed seed of the reference simulation.
@@ -82,13 +79,6 @@ pub struct PortfolioTruth {
     /// Per-history sums of the linear book (for standard errors at other costs).
     #[serde(skip)]
     pub linear_paths: Vec<Vec<BookSums>>,
-}
-
-/// Per-history buffers of the reference simulation.
-struct RefWorker {
-    ws: Workspace,
-    meas: Measurement,
-    books: BookBuilder,
 }
 
 /// True net IR per holding length at cost `c` from pooled sums, with the
@@ -158,11 +148,10 @@ impl PortfolioTruth {
         run_in_order(
             threads,
             spec.reference_paths,
-            || RefWorker { ws: Workspace::default(), meas: Measurement::new(l, false), books: BookBuilder::default() },
-            |w, p| {
-                setup.generator.simulate(&mut path_rng(REFERENCE_SEED, p), &mut w.ws);
-                w.meas.update(&w.ws.panel);
-                w.books.build(&w.ws.panel, &w.meas, s.residual_vol, Some(spec.quantiles))
+            || (PathWorker::new(l, false), BookBuilder::default()),
+            |(w, books), p| {
+                w.simulate_and_measure(setup, REFERENCE_SEED, p);
+                books.build(w.panel(), w.measurement(), s.residual_vol, Some(spec.quantiles))
             },
             |b| per_path.push(b),
             progress,

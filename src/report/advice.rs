@@ -3,11 +3,11 @@
 //! sweep. The terminal prints it first under "Recommendation"; the report
 //! makes it the lead paragraph.
 
-use super::measure_out::MeasureResult;
 use super::sweep::SweepPoint;
 use super::terminal::period_word;
-use crate::measure::rules::Rule;
+use crate::own_data::MeasureResult;
 use crate::plan::{Goal, PlanResult};
+use crate::rule::Rule;
 use crate::scenario::Scenario;
 use crate::stress::StressResult;
 
@@ -70,7 +70,7 @@ pub fn stress_advice(scenario: &Scenario, stress: &StressResult) -> String {
 
 /// `measure`: the range of horizons the data cannot rank, from the bootstrap.
 pub fn measure_advice(m: &MeasureResult, unit: &str) -> Option<String> {
-    let [lo, hi] = m.bootstrap.range_90[0]?;
+    let [lo, hi] = m.bootstrap.range_90.peak?;
     let peak = m.best_horizon.peak?;
     Some(if lo == hi {
         format!(

@@ -1,91 +1,14 @@
 //! Several signals measured in one pass, and their blend: the comparison in
 //! `measure.json`, `signals.csv`, the terminal and the `signals` chart.
 
-use super::measure_out::{BestHorizon, Curve, paragraph};
-use serde::Serialize;
+use super::measure_out::paragraph;
+use crate::own_data::SignalComparison;
 use std::fmt::Write;
 
-/// One signal's (or the blend's) curves and choices.
-#[derive(Debug, Clone, Serialize)]
-pub struct SignalSummary {
-    /// The forecast column, or `blend`.
-    pub name: String,
-    /// `signal` or `blend`.
-    pub kind: String,
-    /// Dates with a lag-1 IC.
-    pub dates_used: usize,
-    /// Lagged ICs with EWC errors.
-    pub lagged_ic: Curve,
-    /// Horizon ICs with EWC errors.
-    pub horizon_ic: Curve,
-    /// Each rule's horizon.
-    pub best_horizon: BestHorizon,
-    /// 5 % and 95 % points of each rule's horizon over the stationary
-    /// bootstrap (peak, formula, fitted; the same resampled dates for every
-    /// signal, so the ranges compare like with like).
-    pub range_90: [Option<[usize; 2]>; 3],
-    /// The decay family fitted to the lagged ICs (`none` when none fits).
-    pub fitted_family: String,
-    /// Each date's lag-1 IC (for the correlations; not in `measure.json`).
-    #[serde(skip)]
-    pub lag1_by_date: Vec<Option<f64>>,
-}
-
-/// One weight of the blend.
-#[derive(Debug, Clone, Serialize)]
-pub struct BlendWeight {
-    /// The forecast column.
-    pub signal: String,
-    /// Its weight on the date's z-scores.
-    pub weight: f64,
-}
-
-/// Every signal measured, side by side.
-#[derive(Debug, Clone, Serialize)]
-pub struct SignalComparison {
-    /// The signals in the order given, then the blend (if any).
-    pub signals: Vec<SignalSummary>,
-    /// The blend's weights (empty: no blend).
-    pub blend_weights: Vec<BlendWeight>,
-    /// Pearson correlation between the signals' per-date lag-1 ICs, over the
-    /// dates both have (`None` with fewer than three), in the order of `signals`.
-    pub ic_correlation: Vec<Vec<Option<f64>>>,
-}
-
-/// The Pearson correlation of two per-date series over the dates both have
-/// (at least three, and both varying).
-pub fn paired_correlation(a: &[Option<f64>], b: &[Option<f64>]) -> Option<f64> {
-    let pairs: Vec<(f64, f64)> = a.iter().zip(b).filter_map(|(x, y)| Some(((*x)?, (*y)?))).collect();
-    if pairs.len() < 3 {
-        return None;
-    }
-    let n = pairs.len() as f64;
-    let (mx, my) = (pairs.iter().map(|p| p.0).sum::<f64>() / n, pairs.iter().map(|p| p.1).sum::<f64>() / n);
-    let (mut sxy, mut sxx, mut syy) = (0.0, 0.0, 0.0);
-    for (x, y) in &pairs {
-        sxy += (x - mx) * (y - my);
-        sxx += (x - mx) * (x - mx);
-        syy += (y - my) * (y - my);
-    }
-    super::finite(sxy / (sxx * syy).sqrt())
-}
-
-impl SignalComparison {
-    /// The comparison of `signals`, with their per-date IC correlations.
-    pub fn new(signals: Vec<SignalSummary>, blend_weights: Vec<BlendWeight>) -> Self {
-        let ic_correlation = signals
-            .iter()
-            .map(|a| signals.iter().map(|b| paired_correlation(&a.lag1_by_date, &b.lag1_by_date)).collect())
-            .collect();
-        Self { signals, blend_weights, ic_correlation }
-    }
-
-    /// The blend in words: `0.5·fast + 0.5·slow`.
-    pub fn blend_words(&self) -> String {
-        let terms: Vec<String> =
-            self.blend_weights.iter().map(|w| format!("{}·{}", trim(w.weight), w.signal)).collect();
-        terms.join(" + ").replace("+ -", "− ")
-    }
+/// The blend in words: `0.5·fast + 0.5·slow`.
+pub fn blend_words(c: &SignalComparison) -> String {
+    let terms: Vec<String> = c.blend_weights.iter().map(|w| format!("{}·{}", trim(w.weight), w.signal)).collect();
+    terms.join(" + ").replace("+ -", "− ")
 }
 
 fn trim(x: f64) -> String {
@@ -133,22 +56,21 @@ pub fn comparison_terminal(c: &SignalComparison) -> String {
         };
         let peak_ic =
             s.best_horizon.peak.and_then(|h| s.horizon_ic.mean[h - 1]).map_or("—".into(), |v| format!("{v:.4}"));
-        let b = s.best_horizon.as_array();
         let _ = writeln!(
             out,
             "  {:<12}  {:>16}  {:>7}  {:>9}  {:>9}  {:>9}",
             cut(&s.name, 12),
             ic,
             peak_ic,
-            choice_range(b[0], s.range_90[0]),
-            choice_range(b[1], s.range_90[1]),
-            choice_range(b[2], s.range_90[2]),
+            choice_range(s.best_horizon.peak, s.range_90.peak),
+            choice_range(s.best_horizon.formula, s.range_90.formula),
+            choice_range(s.best_horizon.fitted, s.range_90.fitted),
         );
     }
     if !c.blend_weights.is_empty() {
         out.push_str(&paragraph(&format!(
             "blend = {}, on each date's z-scores of the signals (after any neutralisation).",
-            c.blend_words()
+            blend_words(c)
         )));
     }
     // The correlation matrix, at most six columns wide on screen (all of it in measure.json).
@@ -206,19 +128,4 @@ pub fn signals_csv(c: &SignalComparison) -> Vec<u8> {
         }
     }
     w.into_inner().expect("in-memory CSV")
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn correlation_uses_only_dates_both_have() {
-        let a = [Some(1.0), Some(2.0), None, Some(3.0), Some(4.0)];
-        let b = [Some(2.0), Some(4.0), Some(100.0), Some(6.0), None];
-        assert!((paired_correlation(&a, &b).unwrap() - 1.0).abs() < 1e-12);
-        let c = [Some(3.0), Some(2.0), Some(0.0), Some(1.0), None];
-        assert!((paired_correlation(&a, &c).unwrap() + 1.0).abs() < 1e-12);
-        assert_eq!(paired_correlation(&a[..2], &b[..2]), None);
-    }
 }

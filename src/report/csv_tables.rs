@@ -1,9 +1,10 @@
 //! CSV tables: curves with truth and measured bands; the chosen-horizon distribution.
 
-use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
+use crate::rule::Rule;
+use crate::simulate::Setup;
 use crate::stats::BAND_LEVELS;
-use crate::study::{CurveStats, Setup, StudyResult};
+use crate::study::{CurveStats, StudyResult};
 
 fn band_headers(prefix: &str) -> Vec<String> {
     let mut h = vec![format!("{prefix}_mean"), format!("{prefix}_mean_se")];
@@ -66,7 +67,7 @@ pub fn choices_csv(setup: &Setup, study: &StudyResult) -> Vec<u8> {
     let rules = [&study.rules.peak, &study.rules.formula, &study.rules.fitted];
     let mut w = csv::Writer::from_writer(Vec::new());
     let mut header = vec!["horizon".to_string(), "is_best".into(), "near_best".into(), "true_horizon_ic".into()];
-    for r in Rule::ALL {
+    for r in Rule::HORIZON {
         header.push(format!("{}_count", r.name()));
         header.push(format!("{}_share", r.name()));
     }

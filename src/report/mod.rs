@@ -24,18 +24,14 @@ pub mod text;
 pub use charts::{
     ChartSet, measure_charts, plan_charts, regret_bin_names, regret_shares, stress_charts, study_charts, sweep_charts,
 };
-pub use compare_out::{
-    BlendWeight, SignalComparison, SignalSummary, comparison_terminal, paired_correlation, signals_csv,
-};
+pub use compare_out::{blend_words, comparison_terminal, signals_csv};
 pub use csv_tables::{choices_csv, cost_sweep_csv, curves_csv, holding_csv};
 pub use finite::first_non_finite;
 pub use measure_out::{
-    BestHorizon, BootCounts, Bootstrap, CalibratedNet, CalibratedStudy, Curve, MeasureResult, PerDateTable,
-    SkippedDate, SuccessRatio, TimingCheck, calendar_units, finite, measure_csv, measure_json, measure_terminal,
-    per_date_csv, ranges as measure_out_ranges,
+    calendar_units, measure_csv, measure_json, measure_terminal, per_date_csv, ranges as measure_out_ranges,
 };
 pub use outdir::{MARKER, OutDir};
-pub use own_books_out::{OWN_BOOKS_METHOD, OwnBooks, OwnNet, holdings_csv, own_books_terminal};
+pub use own_books_out::{holdings_csv, own_books_terminal};
 pub use panel_csv::write_panel;
 pub use plan::{plan_csv, plan_json, plan_terminal};
 pub use provenance::{Made, command_line, utc_date};

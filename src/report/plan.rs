@@ -1,10 +1,11 @@
 //! Outputs of `lagfold plan`: `plan.json`, `plan.csv` and the terminal table.
 
-use super::records::{RECORD_HEADER, RULES, document, record_cells};
+use super::records::{RECORD_HEADER, document, record_cells};
 use super::summary::CAUTION;
 use super::terminal::period_word;
 use super::text::{pct, share_ci};
 use crate::plan::PlanResult;
+use crate::rule::Rule;
 use crate::scenario::Scenario;
 use crate::study::RuleStats;
 use std::fmt::Write;
@@ -20,7 +21,7 @@ pub fn plan_csv(plan: &PlanResult) -> Vec<u8> {
     let header = ["history", "assets"].into_iter().chain(RECORD_HEADER);
     w.write_record(header).expect("in-memory CSV");
     for p in &plan.grid {
-        for r in RULES {
+        for r in Rule::EVERY {
             let lead = [p.history.to_string(), p.assets.to_string()];
             w.write_record(lead.into_iter().chain(record_cells(r, p.rules.get(r)))).expect("in-memory CSV");
         }

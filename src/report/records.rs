@@ -2,12 +2,9 @@
 //! record as CSV cells, and the JSON document wrapper.
 
 use super::summary::CAUTION;
-use crate::measure::rules::Rule;
+use crate::rule::Rule;
 use crate::study::RuleStats;
 use serde::Serialize;
-
-/// Every rule, horizon rules first, in the order the grid tables use.
-pub const RULES: [Rule; 4] = [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr];
 
 /// Column names of [`record_cells`].
 pub const RECORD_HEADER: [&str; 9] = [

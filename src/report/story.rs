@@ -8,8 +8,9 @@ use super::html::Fmt;
 use super::terminal::period_word;
 use super::text::fixed;
 use crate::portfolio::PortfolioTruth;
-use crate::study::{MoreHistory, Setup, StudyResult};
-use crate::truth::argmax1;
+use crate::simulate::Setup;
+use crate::stats::argmax1;
+use crate::study::{MoreHistory, StudyResult};
 
 /// Writes a figure: its JSON pointer in `summary.json` (empty for a value
 /// derived from several), its value and its format.

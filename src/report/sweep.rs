@@ -1,13 +1,14 @@
 //! Outputs of a sweep: `sweep.json`, the long `sweep.csv` (one row per grid
 //! point and rule) and the terminal table.
 
-use super::records::{RECORD_HEADER, RULES, document, record_cells};
+use super::records::{RECORD_HEADER, document, record_cells};
 use super::summary::CAUTION;
 use super::text::{TABLE_WIDTH, share_ci};
-use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
+use crate::rule::Rule;
 use crate::scenario::sweep::Point;
-use crate::study::{RulesOut, Setup, StudyResult};
+use crate::simulate::Setup;
+use crate::study::{RulesOut, StudyResult};
 use serde::Serialize;
 use std::fmt::Write;
 
@@ -61,7 +62,7 @@ pub fn sweep_csv(rows: &[SweepPoint]) -> Vec<u8> {
     header.extend(RECORD_HEADER.map(String::from));
     w.write_record(&header).expect("in-memory CSV");
     for r in rows {
-        for rule in RULES {
+        for rule in Rule::EVERY {
             let mut row: Vec<String> = r.at.iter().map(|(_, v)| v.clone()).collect();
             row.extend([r.best_horizon.to_string(), r.best_holding.to_string()]);
             row.extend(record_cells(rule, r.rules.get(rule)));

@@ -6,7 +6,8 @@ use super::story::{GLOSSARY, Study, plain, ranges, vol_pct};
 use super::summary::CAUTION;
 use super::text::{pct, pct_se, share_ci};
 use crate::portfolio::PortfolioTruth;
-use crate::study::{RuleStats, Setup, StudyResult};
+use crate::simulate::Setup;
+use crate::study::{RuleStats, StudyResult};
 use std::fmt::Write;
 
 /// The period's name for a frequency: "month" for 12 a year, and so on.

@@ -59,50 +59,59 @@ pub enum Tails {
     },
 }
 
-/// A validated scenario. Build it with [`Scenario::from_raw`] or [`load`].
+/// A validated scenario. Build it with [`Scenario::from_raw`] or [`load`];
+/// change it with [`Scenario::revised`] (validated again) or
+/// [`Scenario::with_decay`]. Its fields are read through the methods of the
+/// same names.
 #[derive(Debug, Clone, Serialize)]
 pub struct Scenario {
     /// Name (output folder).
-    pub name: String,
+    pub(crate) name: String,
     /// One-line description.
-    pub description: String,
+    pub(crate) description: String,
     /// Breadth `N` (≥ 10).
-    pub assets: usize,
+    pub(crate) assets: usize,
     /// History `T` (> `horizons`).
-    pub history: usize,
+    pub(crate) history: usize,
     /// Longest horizon `L` (≥ 1).
-    pub horizons: usize,
+    pub(crate) horizons: usize,
     /// Periods per year (> 0).
-    pub periods_per_year: f64,
+    pub(crate) periods_per_year: f64,
     /// Residual volatility per period (> 0).
-    pub residual_vol: f64,
+    pub(crate) residual_vol: f64,
     /// Forecast autocorrelation `ρ` in (−1, 1).
     #[serde(rename = "forecast_autocorrelation")]
-    pub rho: f64,
+    pub(crate) rho: f64,
     /// IC volatility (sd of the common shock) in [0, 1).
-    pub ic_vol: f64,
+    pub(crate) ic_vol: f64,
     /// Persistence `ψ` of the common shock in (−1, 1).
-    pub ic_vol_persistence: f64,
+    pub(crate) ic_vol_persistence: f64,
     /// Idiosyncratic noise law.
-    pub tails: Tails,
+    pub(crate) tails: Tails,
     /// Paths in the study (≥ 1).
-    pub paths: usize,
+    pub(crate) paths: usize,
     /// Master seed.
-    pub seed: u64,
+    pub(crate) seed: u64,
     /// Near-best tolerance, in [0, 1).
-    pub near_best_tolerance: f64,
+    pub(crate) near_best_tolerance: f64,
     /// Truncation lag `K` (IC zero beyond).
-    pub truncation: usize,
+    pub(crate) truncation: usize,
     /// Whether the study also measures rank ICs.
-    pub rank_ic: bool,
+    pub(crate) rank_ic: bool,
     /// The user's lagged-IC curve.
-    pub decay: DecayCurve,
+    pub(crate) decay: DecayCurve,
     /// Holding-period portfolios.
-    pub portfolio: PortfolioSpec,
+    pub(crate) portfolio: PortfolioSpec,
     /// The user's alternative true curves for `lagfold stress`.
-    pub alternatives: Vec<(String, DecayCurve)>,
+    pub(crate) alternatives: Vec<(String, DecayCurve)>,
     /// Whether they replace the default alternatives.
-    pub replace_default_alternatives: bool,
+    pub(crate) replace_default_alternatives: bool,
+    /// The raw form it was validated from (what [`Scenario::revised`] changes).
+    #[serde(skip)]
+    raw: RawScenario,
+    /// A true curve set by [`Scenario::with_decay`] in place of the raw one.
+    #[serde(skip)]
+    replaced_decay: Option<DecayCurve>,
 }
 
 /// Holding-period portfolio settings (validated).
@@ -160,6 +169,11 @@ pub struct Overrides {
     pub seed: Option<u64>,
     /// `--target-vol`.
     pub target_vol: Option<f64>,
+    /// `--cost-bps` with one level.
+    pub cost_bps: Option<f64>,
+    /// Histories of the portfolio's reference simulation (no option: set by
+    /// callers that need less of it).
+    pub reference_paths: Option<usize>,
 }
 
 impl Overrides {
@@ -177,6 +191,7 @@ impl Overrides {
         add("--paths", self.paths.map(|x| x.to_string()));
         add("--seed", self.seed.map(|x| x.to_string()));
         add("--target-vol", self.target_vol.map(|x| x.to_string()));
+        add("--cost-bps", self.cost_bps.map(|x| x.to_string()));
         v
     }
 
@@ -200,6 +215,12 @@ impl Overrides {
         if let Some(v) = self.target_vol {
             raw.portfolio.target_vol = v;
         }
+        if let Some(v) = self.cost_bps {
+            raw.portfolio.cost_bps = v;
+        }
+        if let Some(v) = self.reference_paths {
+            raw.portfolio.reference_paths = v;
+        }
     }
 }
 
@@ -207,6 +228,7 @@ impl Overrides {
 fn option_key(flag: &str) -> String {
     match flag {
         "--target-vol" => "portfolio.target_vol".into(),
+        "--cost-bps" => "portfolio.cost_bps".into(),
         f => f.trim_start_matches('-').replace('-', "_"),
     }
 }
@@ -400,7 +422,109 @@ impl Scenario {
             portfolio,
             alternatives,
             replace_default_alternatives: raw.stress.replace_defaults,
+            raw: raw.clone(),
+            replaced_decay: None,
         })
+    }
+}
+
+impl Scenario {
+    /// Name (output folder).
+    pub fn name(&self) -> &str {
+        &self.name
+    }
+    /// One-line description.
+    pub fn description(&self) -> &str {
+        &self.description
+    }
+    /// Breadth `N` (≥ 10).
+    pub fn assets(&self) -> usize {
+        self.assets
+    }
+    /// History `T` (> `horizons`).
+    pub fn history(&self) -> usize {
+        self.history
+    }
+    /// Longest horizon `L` (≥ 1).
+    pub fn horizons(&self) -> usize {
+        self.horizons
+    }
+    /// Periods per year (> 0).
+    pub fn periods_per_year(&self) -> f64 {
+        self.periods_per_year
+    }
+    /// Residual volatility per period (> 0).
+    pub fn residual_vol(&self) -> f64 {
+        self.residual_vol
+    }
+    /// IC volatility (sd of the common shock) in [0, 1).
+    pub fn ic_vol(&self) -> f64 {
+        self.ic_vol
+    }
+    /// Persistence `ψ` of the common shock in (−1, 1).
+    pub fn ic_vol_persistence(&self) -> f64 {
+        self.ic_vol_persistence
+    }
+    /// Idiosyncratic noise law.
+    pub fn tails(&self) -> Tails {
+        self.tails
+    }
+    /// Paths in the study (≥ 1).
+    pub fn paths(&self) -> usize {
+        self.paths
+    }
+    /// Master seed.
+    pub fn seed(&self) -> u64 {
+        self.seed
+    }
+    /// Near-best tolerance, in [0, 1).
+    pub fn near_best_tolerance(&self) -> f64 {
+        self.near_best_tolerance
+    }
+    /// Truncation lag `K` (IC zero beyond).
+    pub fn truncation(&self) -> usize {
+        self.truncation
+    }
+    /// Whether the study also measures rank ICs.
+    pub fn rank_ic(&self) -> bool {
+        self.rank_ic
+    }
+    /// The user's lagged-IC curve.
+    pub fn decay(&self) -> &DecayCurve {
+        &self.decay
+    }
+    /// Holding-period portfolios.
+    pub fn portfolio(&self) -> &PortfolioSpec {
+        &self.portfolio
+    }
+    /// The user's alternative true curves for `lagfold stress`.
+    pub fn alternatives(&self) -> &[(String, DecayCurve)] {
+        &self.alternatives
+    }
+    /// Whether they replace the default alternatives.
+    pub fn replace_default_alternatives(&self) -> bool {
+        self.replace_default_alternatives
+    }
+
+    /// The scenario with `ov` applied to its raw form, validated again as a
+    /// whole (a curve set by [`Scenario::with_decay`] is kept).
+    ///
+    /// # Errors
+    /// The first field outside its range, as [`Scenario::from_raw`].
+    pub fn revised(&self, ov: &Overrides) -> Result<Scenario, ScenarioError> {
+        let mut raw = self.raw.clone();
+        ov.apply(&mut raw);
+        let s = Scenario::from_raw(&raw, &self.name)?;
+        Ok(match &self.replaced_decay {
+            Some(d) => s.with_decay(d.clone()),
+            None => s,
+        })
+    }
+
+    /// The same scenario with another true decay curve (a validated curve;
+    /// the truncation stays the scenario's, so curves compare over the same lags).
+    pub fn with_decay(&self, decay: DecayCurve) -> Scenario {
+        Scenario { decay: decay.clone(), replaced_decay: Some(decay), ..self.clone() }
     }
 }
 

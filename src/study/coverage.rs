@@ -3,10 +3,10 @@
 //! errors `measure` reports (`tests/se_coverage.rs`,
 //! `examples/se_coverage.rs`).
 
-use super::Setup;
 use crate::generate::Workspace;
 use crate::measure::{Measurement, PerDate, hac};
 use crate::rng::path_rng;
+use crate::simulate::Setup;
 use rayon::prelude::*;
 
 /// Coverage rates per lag or horizon (index 0 = 1).

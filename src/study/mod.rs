@@ -9,48 +9,19 @@ mod ranking;
 mod records;
 mod worker;
 
+use crate::simulate::Setup;
 pub use outcomes::{Outcomes, PathOutcome};
-pub use ranking::{HORIZON_RULES, PairedDifference, RuleRanking};
+pub use ranking::{PairedDifference, RuleRanking};
 pub use records::{RuleStats, RulesOut, Target, net_ir_rule, rule_stats};
-pub use worker::{Worker, run_in_order, simulate_all};
+pub use worker::{Worker, simulate_all};
 
-use crate::error::ScenarioError;
-use crate::generate::Generator;
 use crate::measure::fit::Family;
-use crate::measure::rules::Rule;
-use crate::model::Model;
 use crate::portfolio::PortfolioTruth;
-use crate::scenario::Scenario;
+use crate::rule::Rule;
 use crate::stats::{BAND_LEVELS, Moments, quantile_sorted};
-use crate::truth::{Truth, argmax1, near_set};
+use crate::stats::{argmax1, near_set};
 use serde::Serialize;
 use std::collections::BTreeMap;
-
-/// A validated scenario with everything derived from it.
-#[derive(Debug, Clone)]
-pub struct Setup {
-    /// The scenario.
-    pub scenario: Scenario,
-    /// Calibrated model.
-    pub model: Model,
-    /// The truth.
-    pub truth: Truth,
-    /// The path generator.
-    pub generator: Generator,
-}
-
-impl Setup {
-    /// Calibrates the model, computes the truth and builds the generator.
-    ///
-    /// # Errors
-    /// Infeasible variance or no positive horizon IC.
-    pub fn new(scenario: Scenario) -> Result<Self, ScenarioError> {
-        let model = Model::new(&scenario)?;
-        let truth = Truth::new(&model, scenario.horizons, scenario.near_best_tolerance)?;
-        let generator = Generator::new(&model, scenario.assets, scenario.history, scenario.tails);
-        Ok(Self { scenario, model, truth, generator })
-    }
-}
 
 /// Mean and quantile bands of a measured curve across paths.
 #[derive(Debug, Clone, Serialize)]
@@ -133,15 +104,14 @@ pub fn more_history(
     threads: usize,
     progress: &(dyn Fn(usize) + Sync),
 ) -> Option<MoreHistory> {
-    let mut s = setup.scenario.clone();
-    s.history *= 2;
-    s.paths = s.paths.min(MORE_HISTORY_PATHS);
-    let fits = s.assets.saturating_mul(s.history) <= crate::scenario::MAX_ASSET_DATES
-        && s.paths.saturating_mul(s.horizons) <= crate::scenario::MAX_PATH_HORIZONS;
-    if !fits {
-        return None;
-    }
-    let longer = Setup::new(s).ok()?;
+    let s = &setup.scenario;
+    let twice = crate::scenario::Overrides {
+        history: Some(2 * s.history),
+        paths: Some(s.paths.min(MORE_HISTORY_PATHS)),
+        ..Default::default()
+    };
+    // A history past the scenario's size limits is refused by the validation.
+    let longer = Setup::new(s.revised(&twice).ok()?).ok()?;
     let result = run(&longer, portfolio, &[], threads, progress);
     Some(MoreHistory { history: longer.scenario.history, paths: result.paths, rules: result.rules })
 }
@@ -217,12 +187,12 @@ pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes)
     let l = setup.scenario.horizons;
     let t = &setup.truth;
     let target = Target { truth: &t.horizon_ic, best: t.best_horizon, near: &t.near_best };
-    let stats = |r: Rule, i: usize| {
+    let stats = |r: Rule| {
         rule_stats(
             r.describe(),
             &target,
             outcomes.paths(),
-            |p| outcomes.choices(p).horizon[i],
+            |p| outcomes.choices(p).horizon[r],
             |p, n| outcomes.horizon(p)[n - 1],
         )
     };
@@ -236,15 +206,11 @@ pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes)
         paths: outcomes.paths(),
         seed: setup.scenario.seed,
         se_method: crate::measure::hac::METHOD.into(),
-        ranking: ranking::rank(&target, outcomes, |r| match r {
-            Rule::Formula => 1,
-            Rule::Fitted => 2,
-            _ => 0,
-        }),
+        ranking: ranking::rank(&target, outcomes),
         rules: RulesOut {
-            peak: stats(Rule::Peak, 0),
-            formula: stats(Rule::Formula, 1),
-            fitted: stats(Rule::Fitted, 2),
+            peak: stats(Rule::Peak),
+            formula: stats(Rule::Formula),
+            fitted: stats(Rule::Fitted),
             net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear_paths, c, outcomes),
         },
         cost_bps: portfolio.cost_bps,

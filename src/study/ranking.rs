@@ -4,12 +4,9 @@
 //! overlap of two separate error bars.
 
 use super::{Outcomes, Target};
-use crate::measure::rules::Rule;
+use crate::rule::Rule;
 use crate::stats::{Moments, Z95};
 use serde::Serialize;
-
-/// The horizon rules compared.
-pub const HORIZON_RULES: [Rule; 3] = [Rule::Peak, Rule::Formula, Rule::Fitted];
 
 /// The paired difference of two rules' relative regret, `a − b`, over the same histories.
 #[derive(Debug, Clone, Serialize)]
@@ -34,19 +31,18 @@ pub struct RuleRanking {
     pub differences: Vec<PairedDifference>,
 }
 
-/// Compares the horizon rules on the study's histories; `index(rule)` is the
-/// rule's slot in a path's choices.
-pub fn rank(target: &Target, outcomes: &Outcomes, index: impl Fn(Rule) -> usize) -> RuleRanking {
+/// Compares the horizon rules on the study's histories.
+pub fn rank(target: &Target, outcomes: &Outcomes) -> RuleRanking {
     let v_best = target.truth[target.best - 1];
-    let regret = |rule: Rule, p: usize| (v_best - target.truth[outcomes.choices(p).horizon[index(rule)] - 1]) / v_best;
+    let regret = |rule: Rule, p: usize| (v_best - target.truth[outcomes.choices(p).horizon[rule] - 1]) / v_best;
     let diff = |a: Rule, b: Rule| {
         let mut m = Moments::default();
         (0..outcomes.paths()).for_each(|p| m.push(regret(a, p) - regret(b, p)));
         m
     };
     let mut differences = Vec::new();
-    for (i, &a) in HORIZON_RULES.iter().enumerate() {
-        for &b in &HORIZON_RULES[i + 1..] {
+    for (i, &a) in Rule::HORIZON.iter().enumerate() {
+        for &b in &Rule::HORIZON[i + 1..] {
             let m = diff(a, b);
             differences.push(PairedDifference { a: a.name().into(), b: b.name().into(), mean: m.mean(), se: m.se() });
         }
@@ -55,9 +51,9 @@ pub fn rank(target: &Target, outcomes: &Outcomes, index: impl Fn(Rule) -> usize)
         let m = diff(a, b);
         m.se().is_some_and(|se| m.mean() < -Z95 * se)
     };
-    let best = HORIZON_RULES
+    let best = Rule::HORIZON
         .iter()
-        .find(|&&a| HORIZON_RULES.iter().filter(|&&b| b != a).all(|&b| beats(a, b)))
+        .find(|&&a| Rule::HORIZON.iter().filter(|&&b| b != a).all(|&b| beats(a, b)))
         .map(|r| r.name().to_string());
     RuleRanking { best, differences }
 }

@@ -1,11 +1,12 @@
 //! Judging a rule: hit rates, regret, winner's curse and the distribution of
 //! its choices against a target, with Monte Carlo standard errors.
 
-use super::{Outcomes, Setup};
-use crate::measure::rules::Rule;
+use super::Outcomes;
 use crate::portfolio::BookSums;
+use crate::rule::Rule;
+use crate::simulate::Setup;
 use crate::stats::{BAND_LEVELS, Moments, Proportion, quantile_discrete, quantile_sorted};
-use crate::truth::{argmax1, near_set};
+use crate::stats::{argmax1, near_set};
 use serde::Serialize;
 
 /// Study results for one rule.

@@ -5,7 +5,7 @@ use lagfold::generate::Workspace;
 use lagfold::measure::{Measurement, Panel};
 use lagfold::rng::path_rng;
 use lagfold::scenario::{self, Overrides};
-use lagfold::study::Setup;
+use lagfold::simulate::Setup;
 
 /// A set-up from a scenario text.
 pub fn setup(toml: &str) -> Setup {
@@ -16,9 +16,9 @@ pub fn setup(toml: &str) -> Setup {
 /// Calls `each` with every simulated panel of the scenario and its measurement.
 pub fn for_each_path(setup: &Setup, mut each: impl FnMut(&Panel, &Measurement)) {
     let mut ws = Workspace::default();
-    let mut m = Measurement::new(setup.scenario.horizons, setup.scenario.rank_ic);
-    for p in 0..setup.scenario.paths {
-        let mut rng = path_rng(setup.scenario.seed, p as u64);
+    let mut m = Measurement::new(setup.scenario.horizons(), setup.scenario.rank_ic());
+    for p in 0..setup.scenario.paths() {
+        let mut rng = path_rng(setup.scenario.seed(), p as u64);
         setup.generator.simulate(&mut rng, &mut ws);
         m.update(&ws.panel);
         each(&ws.panel, &m);
@@ -29,14 +29,14 @@ pub fn for_each_path(setup: &Setup, mut each: impl FnMut(&Panel, &Measurement)) 
 /// (mean lagged IC per lag, lagged IC on the first date, mean horizon IC per horizon).
 pub fn per_path_means(s: &Setup) -> Vec<(Vec<f64>, Vec<f64>, Vec<f64>)> {
     use rayon::prelude::*;
-    (0..s.scenario.paths)
+    (0..s.scenario.paths())
         .into_par_iter()
         .map_init(
-            || (Workspace::default(), Measurement::new(s.scenario.horizons, false)),
+            || (Workspace::default(), Measurement::new(s.scenario.horizons(), false)),
             |(ws, m), p| {
-                s.generator.simulate(&mut path_rng(s.scenario.seed, p as u64), ws);
+                s.generator.simulate(&mut path_rng(s.scenario.seed(), p as u64), ws);
                 m.update(&ws.panel);
-                let first = (1..=s.scenario.horizons).map(|k| m.lagged.series(k)[0]).collect();
+                let first = (1..=s.scenario.horizons()).map(|k| m.lagged.series(k)[0]).collect();
                 (m.lagged.means(), first, m.horizon.means())
             },
         )

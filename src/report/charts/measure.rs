@@ -3,8 +3,8 @@
 
 use super::parts::{one_based, rule_colour, rule_title, share_bars};
 use crate::chart::{Chart, Layer, PALETTE, Panel, XyPanel};
-use crate::measure::rules::Rule;
-use crate::report::{Curve, MeasureResult};
+use crate::own_data::{Curve, MeasureResult};
+use crate::rule::Rule;
 
 /// Points of a curve that have a 95 % interval, with the interval as bars.
 fn with_bars(c: &Curve, label: &str) -> Layer {
@@ -73,15 +73,15 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
         ..XyPanel::default()
     });
     let bs = &m.bootstrap;
-    let boot_panel = |rule: Rule, counts: &[u64], chosen: Option<usize>, i: usize| {
+    let boot_panel = |rule: Rule, counts: &[u64], chosen: Option<usize>| {
         let chosen = chosen?;
-        let [lo, hi] = bs.range_90[i]?;
+        let [lo, hi] = bs.range_90[rule]?;
         Some(Panel::Xy(XyPanel {
             heading: format!(
                 "{}: {} in {:.0}% of resamples, 90% within {lo}–{hi}",
                 rule_title(rule),
                 chosen,
-                100.0 * bs.share_at_estimate[i].unwrap_or(0.0),
+                100.0 * bs.share_at_estimate[rule].unwrap_or(0.0),
             ),
             x_label: format!("chosen horizon ({per})"),
             y_label: "share of resamples".into(),
@@ -99,9 +99,9 @@ pub fn measure_charts(m: &MeasureResult) -> Vec<Chart> {
         }))
     };
     let boot_panels: Vec<Panel> = [
-        boot_panel(Rule::Peak, &bs.choice_counts.peak, b.peak, 0),
-        boot_panel(Rule::Formula, &bs.choice_counts.formula, b.formula, 1),
-        boot_panel(Rule::Fitted, &bs.choice_counts.fitted, b.fitted, 2),
+        boot_panel(Rule::Peak, &bs.choice_counts.peak, b.peak),
+        boot_panel(Rule::Formula, &bs.choice_counts.formula, b.formula),
+        boot_panel(Rule::Fitted, &bs.choice_counts.fitted, b.fitted),
     ]
     .into_iter()
     .flatten()
@@ -181,8 +181,8 @@ const SIGNAL_COLOURS: [crate::chart::Colour; 6] =
 
 /// Every signal's lagged and horizon ICs on shared axes, and the correlation
 /// of their per-date ICs.
-fn signals_chart(c: &crate::report::SignalComparison, per: &str) -> Chart {
-    let lines = |curve: fn(&crate::report::SignalSummary) -> &Curve| -> Vec<Layer> {
+fn signals_chart(c: &crate::own_data::SignalComparison, per: &str) -> Chart {
+    let lines = |curve: fn(&crate::own_data::SignalSummary) -> &Curve| -> Vec<Layer> {
         let mut layers = vec![Layer::HLine { y: 0.0, colour: PALETTE.grey, label: String::new() }];
         for (i, s) in c.signals.iter().enumerate() {
             let pts: Vec<(f64, f64)> =
@@ -222,7 +222,7 @@ fn signals_chart(c: &crate::report::SignalComparison, per: &str) -> Chart {
         title: if c.blend_weights.is_empty() {
             "Your signals side by side".into()
         } else {
-            format!("Your signals side by side, and the blend {}", c.blend_words())
+            format!("Your signals side by side, and the blend {}", crate::report::blend_words(c))
         },
         caption: "Each signal's mean lagged and horizon IC (the legend gives each horizon-IC peak) and the \
                   correlation of their per-date lag-1 ICs (shade: its size; text: its sign and value), where a slow \
@@ -251,7 +251,7 @@ fn signals_chart(c: &crate::report::SignalComparison, per: &str) -> Chart {
 
 /// The tranche books on the user's panel: gross and net IR by holding length
 /// with one-standard-error bands, and the turnover.
-fn holdings_chart(b: &crate::report::OwnBooks, per: &str) -> Chart {
+fn holdings_chart(b: &crate::own_data::OwnBooks, per: &str) -> Chart {
     let band = |ir: &[Option<f64>], se: &[Option<f64>], colour, label: String| -> Vec<Layer> {
         let pts: Vec<(f64, f64, f64)> =
             ir.iter().zip(se).enumerate().filter_map(|(h, (v, s))| Some(((h + 1) as f64, (*v)?, (*s)?))).collect();

@@ -2,7 +2,7 @@
 //! curve with its truth, the per-rule colours, bar series of choice counts.
 
 use crate::chart::{Colour, Layer, PALETTE};
-use crate::measure::rules::Rule;
+use crate::rule::Rule;
 use crate::study::CurveStats;
 
 /// The colour of a rule, the same on every chart.

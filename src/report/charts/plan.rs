@@ -6,7 +6,7 @@ use crate::chart::{Chart, Layer, PALETTE, Panel, XyPanel};
 use crate::plan::{Goal, Metric, PlanResult};
 use crate::report::SweepPoint;
 use crate::report::period_word;
-use crate::report::records::RULES;
+use crate::rule::Rule;
 use crate::scenario::Scenario;
 use crate::study::RulesOut;
 
@@ -24,7 +24,7 @@ pub fn record_panel(
     goal: Option<&Goal>,
 ) -> Panel {
     let span = xs.last().copied().unwrap_or(1.0) - xs.first().copied().unwrap_or(0.0);
-    let mut layers: Vec<Layer> = RULES
+    let mut layers: Vec<Layer> = Rule::EVERY
         .iter()
         .enumerate()
         .map(|(i, &rule)| {

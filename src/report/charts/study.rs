@@ -3,10 +3,11 @@
 
 use super::parts::{fan, plural, rule_colour, rule_title, share_bars, trim};
 use crate::chart::{Chart, Layer, PALETTE, Panel, XyPanel};
-use crate::measure::rules::Rule;
 use crate::portfolio::PortfolioTruth;
 use crate::report::period_word;
-use crate::study::{CurveStats, Setup, StudyResult};
+use crate::rule::Rule;
+use crate::simulate::Setup;
+use crate::study::{CurveStats, StudyResult};
 
 /// Upper edges of the relative-regret bins after the exact hit (share of the best value).
 pub const REGRET_EDGES: [f64; 5] = [0.01, 0.025, 0.05, 0.10, 0.25];
@@ -84,7 +85,7 @@ pub fn study_charts(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResu
 fn chosen_chart(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult, unit: &str) -> Chart {
     let t = &setup.truth;
     // One y scale for the four panels, so their heights compare.
-    let top = [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr]
+    let top = Rule::EVERY
         .iter()
         .map(|&r| {
             let c = &study.rules.get(r).choice_counts;
@@ -131,7 +132,7 @@ fn regret_chart(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult) 
     let t = &setup.truth;
     let lin = &portfolio.linear;
     let names = regret_bin_names();
-    let horizon_rules = [Rule::Peak, Rule::Formula, Rule::Fitted];
+    let horizon_rules = Rule::HORIZON;
     let shares = |rule: Rule| {
         let (truth, best) =
             if rule == Rule::NetIr { (&lin.net_ir, lin.best_holding) } else { (&t.horizon_ic, t.best_horizon) };
@@ -190,7 +191,7 @@ fn regret_chart(setup: &Setup, portfolio: &PortfolioTruth, study: &StudyResult) 
 fn optima_chart(setup: &Setup, portfolio: &PortfolioTruth, unit: &str) -> Chart {
     let (t, lin) = (&setup.truth, &portfolio.linear);
     let x: Vec<f64> = (1..=t.horizon_ic.len()).map(|n| n as f64).collect();
-    let gross_best = crate::truth::argmax1(&lin.gross_ir);
+    let gross_best = crate::stats::argmax1(&lin.gross_ir);
     let line = |y: &[f64], dashed: bool, label: &str| Layer::Line {
         x: x.clone(),
         y: y.to_vec(),

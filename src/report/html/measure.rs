@@ -2,8 +2,8 @@
 
 use super::study::rule_name;
 use super::{ErrRow, Fmt, Page, Table, fig, fig_opt, int, share_row};
-use crate::measure::rules::Rule;
-use crate::report::MeasureResult;
+use crate::own_data::MeasureResult;
+use crate::rule::Rule;
 
 /// What the fitted family's shape parameter is.
 fn shape_words(family: &str) -> &'static str {
@@ -46,14 +46,14 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
             horizon("/best_horizon/fitted", b.fitted),
         ),
     ];
-    if let (Some(peak), Some(share), Some([lo, hi])) = (b.peak, bs.share_at_estimate[0], bs.range_90[0]) {
+    if let (Some(peak), Some(share), Some([lo, hi])) = (b.peak, bs.share_at_estimate.peak, bs.range_90.peak) {
         summary.push(format!(
             "Resampling the dates, the peak rule picks the same {} periods in {} of resamples, and 90% of its \
              picks lie between {} and {} periods: that spread is how uncertain the best horizon is.",
             int("/best_horizon/peak", peak),
-            fig("/bootstrap/share_at_estimate/0", share, Fmt::Pct(0)),
-            int("/bootstrap/range_90/0/0", lo),
-            int("/bootstrap/range_90/0/1", hi),
+            fig("/bootstrap/share_at_estimate/peak", share, Fmt::Pct(0)),
+            int("/bootstrap/range_90/peak/0", lo),
+            int("/bootstrap/range_90/peak/1", hi),
         ));
     }
     if let Some(c) = &m.calibrated_study {
@@ -62,7 +62,7 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
             "In {} simulated histories built to resemble yours (calibrated.toml){like}, the peak rule landed within \
              one period of the true best horizon in {}.",
             int("/calibrated_study/paths", c.paths),
-            fig("/calibrated_study/near_hit_rate/0", c.near_hit_rate[0], Fmt::Pct(1)),
+            fig("/calibrated_study/near_hit_rate/peak", c.near_hit_rate.peak, Fmt::Pct(1)),
         ));
     }
     let mut errors = vec![ErrRow::new(
@@ -77,8 +77,9 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
             num(&format!("/horizon_ic/se/{}", peak - 1), m.horizon_ic.se[peak - 1]),
         ));
     }
-    for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
-        if let (Some(share), Some(se)) = (bs.share_at_estimate[i], bs.share_at_estimate_se[i]) {
+    for rule in Rule::HORIZON {
+        let i = rule.name();
+        if let (Some(share), Some(se)) = (bs.share_at_estimate[rule], bs.share_at_estimate_se[rule]) {
             errors.push(ErrRow::new(
                 format!("{}: share of resamples choosing the full-data horizon (Monte Carlo error)", rule_name(rule)),
                 fig(&format!("/bootstrap/share_at_estimate/{i}"), share, Fmt::Pct(1)),
@@ -87,13 +88,14 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
         }
     }
     if let Some(c) = &m.calibrated_study {
-        for (i, rule) in [Rule::Peak, Rule::Formula, Rule::Fitted].into_iter().enumerate() {
+        for rule in Rule::HORIZON {
+            let i = rule.name();
             errors.push(share_row(
                 format!("calibrated study, {}: within one period (Monte Carlo error)", rule_name(rule)),
                 &format!("/calibrated_study/near_hit_rate/{i}"),
                 &format!("/calibrated_study/near_hit_rate_ci/{i}"),
-                c.near_hit_rate[i],
-                c.near_hit_rate_ci[i],
+                c.near_hit_rate[rule],
+                c.near_hit_rate_ci[rule],
             ));
         }
     }
@@ -138,7 +140,7 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
         ),
     ];
     if m.books.is_some() {
-        methods.push(("Tranche books".into(), crate::report::OWN_BOOKS_METHOD.into()));
+        methods.push(("Tranche books".into(), crate::own_data::OWN_BOOKS_METHOD.into()));
     }
     let tables = m
         .comparison
@@ -170,17 +172,15 @@ pub fn measure_page(m: &MeasureResult, parameters: serde_json::Value, charts: Ve
 }
 
 /// The signals side by side, every figure pointing into `measure.json`.
-fn comparison_table(c: &crate::report::SignalComparison) -> Table {
-    let choice = |i: usize, r: usize, h: Option<usize>, range: Option<[usize; 2]>| match (h, range) {
+fn comparison_table(c: &crate::own_data::SignalComparison) -> Table {
+    let choice = |i: usize, r: Rule, h: Option<usize>, range: Option<[usize; 2]>| match (h, range) {
         (Some(h), Some([lo, hi])) => format!(
             "{} ({}–{})",
-            int(&format!("/comparison/signals/{i}/best_horizon/{}", ["peak", "formula", "fitted"][r]), h),
-            int(&format!("/comparison/signals/{i}/range_90/{r}/0"), lo),
-            int(&format!("/comparison/signals/{i}/range_90/{r}/1"), hi)
+            int(&format!("/comparison/signals/{i}/best_horizon/{}", r.name()), h),
+            int(&format!("/comparison/signals/{i}/range_90/{}/0", r.name()), lo),
+            int(&format!("/comparison/signals/{i}/range_90/{}/1", r.name()), hi)
         ),
-        (Some(h), None) => {
-            int(&format!("/comparison/signals/{i}/best_horizon/{}", ["peak", "formula", "fitted"][r]), h)
-        }
+        (Some(h), None) => int(&format!("/comparison/signals/{i}/best_horizon/{}", r.name()), h),
         _ => "—".into(),
     };
     let rows = c
@@ -188,8 +188,8 @@ fn comparison_table(c: &crate::report::SignalComparison) -> Table {
         .iter()
         .enumerate()
         .map(|(i, s)| {
-            let b = s.best_horizon.as_array();
-            let peak = b[0].map_or("—".into(), |h| {
+            let b = s.best_horizon;
+            let peak = b.peak.map_or("—".into(), |h| {
                 fig_opt(
                     &format!("/comparison/signals/{i}/horizon_ic/mean/{}", h - 1),
                     s.horizon_ic.mean[h - 1],
@@ -216,9 +216,9 @@ fn comparison_table(c: &crate::report::SignalComparison) -> Table {
                     )
                 ),
                 peak,
-                choice(i, 0, b[0], s.range_90[0]),
-                choice(i, 1, b[1], s.range_90[1]),
-                choice(i, 2, b[2], s.range_90[2]),
+                choice(i, Rule::Peak, b.peak, s.range_90.peak),
+                choice(i, Rule::Formula, b.formula, s.range_90.formula),
+                choice(i, Rule::Fitted, b.fitted, s.range_90.fitted),
             ]
         })
         .collect();
@@ -226,7 +226,7 @@ fn comparison_table(c: &crate::report::SignalComparison) -> Table {
         heading: if c.blend_weights.is_empty() {
             "Signals side by side".into()
         } else {
-            format!("Signals side by side (blend = {} on per-date z-scores)", c.blend_words())
+            format!("Signals side by side (blend = {} on per-date z-scores)", crate::report::blend_words(c))
         },
         header: [
             "signal",
@@ -244,7 +244,7 @@ fn comparison_table(c: &crate::report::SignalComparison) -> Table {
 }
 
 /// The tranche books at each cost, with the calibrated study's net-IR rule beside.
-fn books_table(b: &crate::report::OwnBooks, m: &MeasureResult) -> Table {
+fn books_table(b: &crate::own_data::OwnBooks, m: &MeasureResult) -> Table {
     let net = m.calibrated_study.as_ref().map_or(&[][..], |c| &c.net[..]);
     let rows = b
         .costs

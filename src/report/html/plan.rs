@@ -4,7 +4,7 @@ use super::study::{ERRORS_NOTE, rule_name, study_methods};
 use super::{ErrRow, Fmt, Page, fig, int, share_row};
 use crate::plan::{Goal, Metric, PlanResult};
 use crate::report::period_word;
-use crate::report::records::RULES;
+use crate::rule::Rule;
 use crate::scenario::Scenario;
 
 /// The report page of a plan.
@@ -58,7 +58,7 @@ pub fn plan_page(scenario: &Scenario, plan: &PlanResult, goal: &Goal, charts: Ve
             ));
         }
     }
-    let peak_last = plan.grid[last].rules.get(crate::measure::rules::Rule::Peak);
+    let peak_last = plan.grid[last].rules.get(crate::rule::Rule::Peak);
     summary.push(format!(
         "Even at the longest history, picking the measured peak gives up on average {} of the best horizon IC.",
         fig(&format!("/grid/{last}/rules/peak/regret_rel_mean"), peak_last.regret_rel_mean, Fmt::Pct(1))
@@ -66,7 +66,7 @@ pub fn plan_page(scenario: &Scenario, plan: &PlanResult, goal: &Goal, charts: Ve
     let mut errors = Vec::new();
     let metrics = if goal.metric == Metric::Regret { vec![Metric::NearHit] } else { vec![goal.metric] };
     for (i, p) in plan.grid.iter().enumerate() {
-        for rule in RULES {
+        for rule in Rule::EVERY {
             let r = p.rules.get(rule);
             for &m in metrics.iter().chain(&[Metric::Regret]) {
                 let (x, se) = m.of(r);

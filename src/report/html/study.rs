@@ -1,8 +1,8 @@
 //! The report of a study (`run`, `demo`); figures point into `summary.json`.
 
 use super::{ErrRow, Fmt, Page, fig, fig_opt, share_row};
-use crate::measure::rules::Rule;
 use crate::report::story::{Study, plain};
+use crate::rule::Rule;
 use crate::study::RuleStats;
 
 /// How the simulation, truth, estimators and rules work, with their sources.
@@ -129,7 +129,7 @@ pub fn study_page(story: &Study, charts: Vec<(String, String, String)>) -> Page 
             fig(&format!("/truth/portfolio/linear/net_ir_se/{}", hold - 1), lin.net_ir_se[hold - 1], Fmt::Num(3)),
         ),
     ];
-    for rule in [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr] {
+    for rule in Rule::EVERY {
         errors.extend(rule_error_rows(
             rule_name(rule),
             study.rules.get(rule),

@@ -2,8 +2,8 @@
 
 use super::study::{ERRORS_NOTE, rule_error_rows, rule_name, study_methods};
 use super::{Fmt, Page, Table, esc, fig, int};
-use crate::measure::rules::Rule;
 use crate::report::SweepPoint;
+use crate::rule::Rule;
 use crate::scenario::sweep::Point;
 use std::collections::BTreeMap;
 
@@ -84,7 +84,7 @@ pub fn sweep_page(
         .collect();
     let mut errors = Vec::new();
     for (i, p) in points.iter().enumerate() {
-        for rule in [Rule::Peak, Rule::Formula, Rule::Fitted, Rule::NetIr] {
+        for rule in Rule::EVERY {
             let label = format!("#{} {}", i + 1, rule_name(rule));
             errors.extend(rule_error_rows(&label, p.rules.get(rule), &format!("/grid/{i}/rules/{}", rule.name())));
         }

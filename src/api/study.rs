@@ -1,0 +1,109 @@
+//! A study of one scenario: the reference simulation behind the portfolio
+//! truth, the study, and what twice the history would buy.
+
+use super::{Error, Files, Progress, Scenario, at_cost, charts, check_costs, finite, stage};
+use crate::portfolio::PortfolioTruth;
+use crate::report::{self, Summary};
+use crate::simulate::Setup;
+use crate::study::{self, MoreHistory, StudyResult};
+
+/// Most one-way cost levels in one study (each is a row of the cost table
+/// and a line on the cost chart).
+pub const MAX_COST_LEVELS: usize = 50;
+
+/// How to run a study.
+#[derive(Debug, Clone, Default)]
+pub struct StudyOptions {
+    /// Worker threads (0: every core); results do not depend on it.
+    pub threads: usize,
+    /// One-way costs in basis points: one level replaces the scenario's cost;
+    /// several add a table of the net optimum at each.
+    pub cost_bps: Vec<f64>,
+    /// Also run the study at twice the history (what more history buys).
+    pub more_history: bool,
+}
+
+/// A study's every result.
+#[derive(Debug, Clone)]
+pub struct StudyOutcome {
+    /// The validated scenario, its truth and generator.
+    pub setup: Setup,
+    /// The portfolio truth from the reference simulation.
+    pub portfolio: PortfolioTruth,
+    /// The study.
+    pub result: StudyResult,
+    /// The study at twice the history, when asked for and within the limits.
+    pub more: Option<MoreHistory>,
+}
+
+/// The study of `scenario` (`origin` names it in messages).
+///
+/// # Errors
+/// A cost out of range, or a scenario whose truth cannot be computed.
+pub fn study(
+    scenario: &Scenario,
+    origin: &str,
+    o: &StudyOptions,
+    progress: &dyn Progress,
+) -> Result<StudyOutcome, Error> {
+    check_costs(&o.cost_bps, MAX_COST_LEVELS, "`run`")?;
+    let one = if let [c] = o.cost_bps[..] { Some(c) } else { None };
+    let setup = Setup::new(at_cost(scenario, one, origin)?).map_err(|e| Error::Input(format!("{origin}: {e}")))?;
+    let sweep = if o.cost_bps.len() > 1 { o.cost_bps.clone() } else { Vec::new() };
+    let threads = super::threads_or_all(o.threads);
+    let s = &setup.scenario;
+    super::note_long(progress, s.paths + s.portfolio.reference_paths, s, threads);
+    let portfolio =
+        stage(progress, "reference", s.portfolio.reference_paths, |p| PortfolioTruth::compute(&setup, threads, p));
+    let result = stage(progress, "study", s.paths, |p| study::run(&setup, &portfolio, &sweep, threads, p));
+    let more = if o.more_history {
+        stage(progress, "twice the history", s.paths.min(study::MORE_HISTORY_PATHS), |p| {
+            study::more_history(&setup, &portfolio, threads, p)
+        })
+    } else {
+        None
+    };
+    Ok(StudyOutcome { setup, portfolio, result, more })
+}
+
+impl StudyOutcome {
+    /// The whole story the reports tell.
+    pub fn story(&self) -> report::Study<'_> {
+        report::Study { setup: &self.setup, portfolio: &self.portfolio, study: &self.result, more: self.more.as_ref() }
+    }
+
+    /// `summary.json`'s content.
+    pub fn summary(&self) -> Summary<'_> {
+        Summary::new(&self.story())
+    }
+
+    /// Every output file: `summary.json`, the CSV tables, the charts (when
+    /// `draw_charts`) and `report.html` made with `made`.
+    ///
+    /// # Errors
+    /// A result that is not finite, or a chart that cannot be drawn.
+    pub fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
+        let summary = self.summary();
+        finite(&summary)?;
+        let (setup, result) = (&self.setup, &self.result);
+        let mut files = vec![
+            ("summary.json".to_string(), report::summary_json(&summary)),
+            ("curves.csv".into(), report::curves_csv(setup, result)),
+            ("choices.csv".into(), report::choices_csv(setup, result)),
+            ("holding.csv".into(), report::holding_csv(&self.portfolio, result)),
+        ];
+        if !result.cost_sweep.is_empty() {
+            files.push(("cost_sweep.csv".into(), report::cost_sweep_csv(result)));
+        }
+        let charts = charts(draw_charts, || report::study_charts(setup, &self.portfolio, result))?;
+        files.extend(charts.files);
+        let page = report::html::study_page(&self.story(), charts.inline);
+        files.push(("report.html".into(), report::html::render(&page, made)));
+        Ok(files)
+    }
+
+    /// The terminal summary.
+    pub fn terminal(&self) -> String {
+        report::terminal_summary(&self.story())
+    }
+}
