@@ -31,13 +31,15 @@ impl PanelSource {
         }
     }
 
-    /// The stem that names outputs and the calibrated scenario (`stdin` for `-`).
+    /// The stem that names outputs and the calibrated scenario (`stdin` for
+    /// `-`; a name of columns in memory counts as a file name).
     pub fn stem(&self) -> String {
-        match self {
-            PanelSource::File(p) if p.as_os_str() == "-" => "stdin".into(),
-            PanelSource::File(p) => p.file_stem().map_or("panel".into(), |s| s.to_string_lossy().into_owned()),
-            PanelSource::Columns(name, _) => name.clone(),
-        }
+        let path = match self {
+            PanelSource::File(p) if p.as_os_str() == "-" => return "stdin".into(),
+            PanelSource::File(p) => p.as_path(),
+            PanelSource::Columns(name, _) => Path::new(name),
+        };
+        path.file_stem().map_or("panel".into(), |s| s.to_string_lossy().into_owned())
     }
 }
 

@@ -21,12 +21,18 @@ impl Made {
     /// date of `SOURCE_DATE_EPOCH` when set (the reproducible-builds.org
     /// convention, so tests and rebuilt reports can fix it).
     pub fn now() -> Self {
+        let args: Vec<String> = std::env::args().skip(1).collect();
+        Self::now_by(command_line(&args))
+    }
+
+    /// Made today (`SOURCE_DATE_EPOCH` when set) by `command`, as the page
+    /// should say it (a Python call, say).
+    pub fn now_by(command: String) -> Self {
         let secs =
             std::env::var("SOURCE_DATE_EPOCH").ok().and_then(|s| s.trim().parse::<u64>().ok()).unwrap_or_else(|| {
                 std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map_or(0, |d| d.as_secs())
             });
-        let args: Vec<String> = std::env::args().skip(1).collect();
-        Self { date: utc_date(secs), version: env!("CARGO_PKG_VERSION"), command: command_line(&args) }
+        Self { date: utc_date(secs), version: env!("CARGO_PKG_VERSION"), command }
     }
 }
 
