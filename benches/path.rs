@@ -53,7 +53,7 @@ fn ratio_report(setup: &Setup) {
             black_box(worker.measure_path(setup, p));
         },
         || {
-            black_box(books.build(&ws.panel, &meas, 0.06, None));
+            black_box(books.build(&ws.panel, meas.products().unwrap(), 0.06, None));
         },
     );
     println!(
@@ -79,7 +79,9 @@ fn benches(c: &mut Criterion) {
     g.bench_function("simulate", |b| b.iter(|| setup.generator.simulate(&mut rng, black_box(&mut ws))));
     g.bench_function("measure", |b| b.iter(|| meas.update(black_box(&ws.panel))));
     let mut p = 0u64;
-    g.bench_function("books", |b| b.iter(|| black_box(BookBuilder::default().build(&ws.panel, &meas, 0.06, None))));
+    g.bench_function("books", |b| {
+        b.iter(|| black_box(BookBuilder::default().build(&ws.panel, meas.products().unwrap(), 0.06, None)))
+    });
     g.bench_function("whole_path", |b| {
         b.iter(|| {
             p += 1;

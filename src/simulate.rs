@@ -72,6 +72,15 @@ impl PathWorker {
     pub fn measurement(&self) -> &Measurement {
         &self.meas
     }
+
+    /// The last path's forecast-by-return products, for the books.
+    ///
+    /// # Panics
+    /// Never for a simulated panel: it is complete and has at least 10 assets
+    /// (the scenario's minimum), so its measurement always has them.
+    pub fn products(&self) -> crate::measure::Products<'_> {
+        self.meas.products().expect("a simulated panel is complete")
+    }
 }
 
 /// Paths simulated between two progress reports.

@@ -143,6 +143,39 @@ pub struct Measurement {
     gram: Vec<f64>,
     tmp: Vec<f64>,
     order: Vec<usize>,
+    /// Whether `fdm` and `cross` hold the last update's products (a complete
+    /// panel with enough assets).
+    has_products: bool,
+}
+
+/// The forecast-by-return products of a measured complete panel, which the
+/// portfolio books reuse; see [`Measurement::products`].
+#[derive(Debug, Clone, Copy)]
+pub struct Products<'a> {
+    horizons: usize,
+    fdm: &'a [f64],
+    cross: &'a [f64],
+    ret_scale: f64,
+}
+
+impl Products<'_> {
+    /// Longest lag measured.
+    pub fn horizons(&self) -> usize {
+        self.horizons
+    }
+
+    /// `⟨f̃_t, r_{t+k−1}⟩`: the demeaned forecasts at date `t` against the
+    /// returns `k` periods later (`t + k ≤ dates − 1`).
+    pub fn lagged_cov(&self, t: usize, k: usize) -> f64 {
+        self.cross[t * self.horizons + k - 1] / self.ret_scale
+    }
+
+    /// The demeaned forecasts at dates `0..dates − 1` (row-major; the last
+    /// date, which has no return, is left out), each date's row multiplied by
+    /// its own power of two.
+    pub fn demeaned_forecasts(&self) -> &[f64] {
+        self.fdm
+    }
 }
 
 /// Writes `src` minus its mean into `dst`.
@@ -189,17 +222,16 @@ impl Measurement {
         self.horizons
     }
 
-    /// `⟨f̃_t, r_{t+k−1}⟩` of the last update: the demeaned forecasts at date
-    /// `t` against the returns `k` periods later (`t + k ≤ dates − 1`).
-    pub fn lagged_cov(&self, t: usize, k: usize) -> f64 {
-        self.cross[t * self.horizons + k - 1] / self.ret_scale
-    }
-
-    /// The demeaned forecasts of the last update at dates `0..dates − 1`
-    /// (row-major; the last date, which has no return, is left out), each
-    /// date's row multiplied by its own power of two.
-    pub fn demeaned_forecasts(&self) -> &[f64] {
-        &self.fdm
+    /// The last update's forecast-by-return products, or `None` when it was
+    /// of a panel with missing values or too few assets (measured pair by
+    /// pair, or not at all, so there are none).
+    pub fn products(&self) -> Option<Products<'_>> {
+        self.has_products.then_some(Products {
+            horizons: self.horizons,
+            fdm: &self.fdm,
+            cross: &self.cross,
+            ret_scale: self.ret_scale,
+        })
     }
 
     /// Measures `panel` (needs `panel.dates ≥ horizons + 2`). Dates on which a
@@ -210,6 +242,7 @@ impl Measurement {
     pub fn update(&mut self, panel: &Panel) {
         let (n, t, l) = (panel.assets, panel.dates, self.horizons);
         assert!(t >= l + 2, "panel has {t} dates, needs at least {}", l + 2);
+        self.has_products = false;
         if panel.has_missing {
             self.lagged.reset(l, t);
             self.horizon.reset(l, t);
@@ -233,6 +266,7 @@ impl Measurement {
             return;
         }
         self.pearson_and_horizon(panel, n, t);
+        self.has_products = true;
         if self.with_rank {
             self.rank(panel, n, t);
         }
@@ -412,6 +446,24 @@ mod tests {
         let cum: Vec<f64> = idx.iter().map(|&i| (1..4).map(|s| p.return_row(s)[i]).sum()).collect();
         let want = pearson(&pick(p.forecast_row(1), &idx), &cum);
         assert!((masked.horizon.series(3)[1] - want).abs() < 1e-12);
+    }
+
+    #[test]
+    fn only_a_complete_panel_lends_its_products_to_the_books() {
+        // Catches: books built from a panel measured pair by pair, whose
+        // product buffers are empty or left over from an earlier panel.
+        let p = toy_panel();
+        let mut m = Measurement::new(3, false);
+        m.update(&p);
+        let products = m.products().expect("a complete panel has products");
+        assert_eq!(products.demeaned_forecasts().len(), (p.dates - 1) * p.assets);
+        let mut flagged = p.clone();
+        flagged.has_missing = true;
+        m.update(&flagged);
+        assert!(m.products().is_none(), "a panel with missing values has none");
+        let mut few = Measurement::new(3, false).with_min_assets(p.assets + 1);
+        few.update(&p);
+        assert!(few.products().is_none(), "nor one with too few assets");
     }
 
     #[test]

@@ -11,7 +11,7 @@
 
 use super::sums::BookSums;
 use crate::measure::sums::sum_of;
-use crate::measure::{Measurement, Panel, banded_products};
+use crate::measure::{Panel, Products, banded_products};
 
 /// Both books of one history: `[h − 1]` is holding length `h`.
 #[derive(Debug, Clone, Default, PartialEq)]
@@ -56,10 +56,10 @@ fn code_distance(a: &[i8], b: &[i8]) -> u32 {
 
 impl BookBuilder {
     /// Books for holding lengths `1..=L` of the history in `panel`, already
-    /// measured in `meas` (its forecast-by-return products are reused), with
+    /// measured (its forecast-by-return products `meas` are reused), with
     /// residual volatility `sigma`; the quantile book too when `q` (the number
     /// of quantiles) is given.
-    pub fn build(&mut self, panel: &Panel, meas: &Measurement, sigma: f64, q: Option<usize>) -> PathBooks {
+    pub fn build(&mut self, panel: &Panel, meas: Products<'_>, sigma: f64, q: Option<usize>) -> PathBooks {
         let linear = self.linear_prefixes(panel, meas, sigma, &[panel.dates]).pop().unwrap_or_default();
         let quantile = q.map(|q| self.quantile_book(panel, meas.demeaned_forecasts(), q, meas.horizons(), sigma));
         PathBooks { linear, quantile: quantile.unwrap_or_default() }
@@ -71,7 +71,7 @@ impl BookBuilder {
     pub fn linear_prefixes(
         &mut self,
         panel: &Panel,
-        meas: &Measurement,
+        meas: Products<'_>,
         sigma: f64,
         ends: &[usize],
     ) -> Vec<Vec<BookSums>> {

@@ -151,7 +151,7 @@ impl PortfolioTruth {
             || (PathWorker::new(l, false), BookBuilder::default()),
             |(w, books), p| {
                 w.simulate_and_measure(setup, REFERENCE_SEED, p);
-                books.build(w.panel(), w.measurement(), s.residual_vol, Some(spec.quantiles))
+                books.build(w.panel(), w.products(), s.residual_vol, Some(spec.quantiles))
             },
             |b| per_path.push(b),
             progress,

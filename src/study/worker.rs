@@ -43,15 +43,14 @@ impl Worker {
 
     /// The linear books of the last path as if it had ended after each of `ends` dates.
     pub fn book_prefixes(&mut self, setup: &Setup, ends: &[usize]) -> Vec<Vec<BookSums>> {
-        self.books.linear_prefixes(self.path.panel(), self.path.measurement(), setup.scenario.residual_vol, ends)
+        self.books.linear_prefixes(self.path.panel(), self.path.products(), setup.scenario.residual_vol, ends)
     }
 
     /// A whole study path: [`Worker::measure_path`] plus the linear books of
     /// every holding length.
     pub fn run_path(&mut self, setup: &Setup, path: u64) -> PathOutcome {
         let mut out = self.measure_path(setup, path);
-        let (panel, meas) = (self.path.panel(), self.path.measurement());
-        out.books = self.books.build(panel, meas, setup.scenario.residual_vol, None).linear;
+        out.books = self.books.build(self.path.panel(), self.path.products(), setup.scenario.residual_vol, None).linear;
         out
     }
 }
