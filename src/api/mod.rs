@@ -9,6 +9,7 @@
 //! | [`study()`] | a scenario | [`StudyOutcome`] |
 //! | [`plan()`] | a scenario and a grid of histories | [`PlanOutcome`] |
 //! | [`stress()`] | a scenario and its alternative curves | [`StressOutcome`] |
+//! | [`sweep()`] | the grid points of a sweep file | [`SweepOutcome`] |
 //! | [`simulate_panel`] | a scenario and a path index | [`SimulatedPanel`] |
 //! | [`measure()`] | a panel (file or columns in memory) | [`MeasureOutcome`] |
 
@@ -18,8 +19,11 @@ mod plan;
 mod scenario;
 mod stress;
 mod study;
+mod sweep;
 
-pub use crate::reader::{Column, ReadOptions};
+pub use crate::own_data::{BlendWeight, parse_blend};
+pub use crate::plan::Goal;
+pub use crate::reader::{Column, DEFAULT_NA, ReadOptions, default_max_bytes};
 pub use crate::scenario::{Overrides, Scenario};
 pub use measure::{MeasureOptions, MeasureOutcome, PanelSource, measure};
 pub use panel::{SimulatedPanel, simulate_panel};
@@ -27,6 +31,7 @@ pub use plan::{PlanOptions, PlanOutcome, plan};
 pub use scenario::{load_scenario, scenario_from_json, scenario_from_toml, scenario_text};
 pub use stress::{StressOptions, StressOutcome, stress};
 pub use study::{MAX_COST_LEVELS, StudyOptions, StudyOutcome, study};
+pub use sweep::{SweepOutcome, sweep};
 
 /// Why an operation gave no result.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -119,7 +124,7 @@ pub fn threads_or_all(threads: usize) -> usize {
 
 /// Refuses a result holding a number that is not finite (JSON would show it
 /// as `null`, a table as `NaN`).
-pub(crate) fn finite<T: serde::Serialize + ?Sized>(result: &T) -> Result<(), Error> {
+fn finite<T: serde::Serialize + ?Sized>(result: &T) -> Result<(), Error> {
     match crate::report::first_non_finite(result) {
         None => Ok(()),
         Some((path, v)) => Err(Error::Failure(format!(
@@ -130,10 +135,7 @@ pub(crate) fn finite<T: serde::Serialize + ?Sized>(result: &T) -> Result<(), Err
 }
 
 /// The charts drawn, or none when `draw` is false.
-pub(crate) fn charts(
-    draw: bool,
-    build: impl FnOnce() -> Vec<crate::chart::Chart>,
-) -> Result<crate::report::ChartSet, Error> {
+fn charts(draw: bool, build: impl FnOnce() -> Vec<crate::chart::Chart>) -> Result<crate::report::ChartSet, Error> {
     if draw { crate::report::ChartSet::render(&build()).map_err(Error::failure) } else { Ok(Default::default()) }
 }
 

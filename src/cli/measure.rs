@@ -3,8 +3,7 @@
 
 use super::run::{StudyArgs, threads};
 use super::{Failure, print, progress};
-use crate::reader::ReadOptions;
-use crate::{api, own_data, report};
+use crate::{api, report};
 use std::path::{Path, PathBuf};
 
 /// A budget in bytes: a number with an optional `K`, `M`, `G` or `T` suffix (powers of 1024).
@@ -108,18 +107,17 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
              which --no-study skips; drop one or the other",
         ));
     }
-    let blend =
-        if a.blend.is_empty() { Vec::new() } else { own_data::parse_blend(&a.blend).map_err(Failure::input)? };
-    let read = ReadOptions {
+    let blend = if a.blend.is_empty() { Vec::new() } else { api::parse_blend(&a.blend).map_err(Failure::input)? };
+    let read = api::ReadOptions {
         date: a.date_column.clone(),
         asset: a.asset_column.clone(),
         forecasts: a.forecast_column.iter().flatten().map(|c| c.trim().to_string()).collect(),
         ret: a.return_column.clone(),
         backward: a.backward_returns,
-        max_bytes: a.max_memory.unwrap_or_else(crate::reader::default_max_bytes),
+        max_bytes: a.max_memory.unwrap_or_else(api::default_max_bytes),
         na: match &a.na {
             Some(list) => list.iter().map(|t| t.trim().to_string()).filter(|t| !t.is_empty()).collect(),
-            None => crate::reader::DEFAULT_NA.iter().map(|s| s.to_string()).collect(),
+            None => api::DEFAULT_NA.iter().map(|s| s.to_string()).collect(),
         },
         group: a.group_column.clone(),
         exposures: a.neutralize.clone(),

@@ -3,7 +3,6 @@
 
 use super::run::{StudyArgs, read_scenario, threads};
 use super::{Failure, print, progress};
-use crate::plan::Goal;
 use crate::{api, report};
 use std::path::{Path, PathBuf};
 
@@ -18,8 +17,8 @@ pub struct PlanArgs {
     pub histories: Vec<usize>,
     /// What must hold: `[rule:]metric>=value` or `<=value`; rules peak,
     /// formula, fitted, net_ir; metrics hit, near-hit, near-best, regret.
-    #[arg(long, default_value = "near-hit>=0.8", value_parser = Goal::parse)]
-    pub target: Goal,
+    #[arg(long, default_value = "near-hit>=0.8", value_parser = api::Goal::parse)]
+    pub target: api::Goal,
     /// The common knobs.
     #[command(flatten)]
     pub study: StudyArgs,

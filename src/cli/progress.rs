@@ -61,12 +61,3 @@ impl crate::api::Progress for Bars {
         }
     }
 }
-
-/// Prints [`long_work`](crate::api::long_work)'s note on stderr unless `quiet`.
-pub fn warn_long(asset_dates: f64, what: &str, threads: usize, quiet: bool) {
-    if let Some(note) = crate::api::long_work(asset_dates, what, threads)
-        && !quiet
-    {
-        super::warn(&note);
-    }
-}

@@ -3,11 +3,8 @@
 
 use super::{Failure, print, progress};
 use crate::api;
-use crate::portfolio::PortfolioTruth;
 use crate::report;
 use crate::scenario::{self, Overrides, Scenario, presets, sweep};
-use crate::simulate::Setup;
-use crate::study;
 use std::path::{Path, PathBuf};
 
 /// Options shared by `run` and `demo`.
@@ -123,11 +120,6 @@ pub fn warn_implausible(scenarios: &[&Scenario], origin: &str) {
     }
 }
 
-/// Asset-dates simulated by a study of `s` and its reference simulation.
-fn study_asset_dates(s: &Scenario) -> f64 {
-    (s.paths + s.portfolio.reference_paths) as f64 * s.assets as f64 * s.history as f64
-}
-
 /// `lagfold run`: one scenario, or the grid of a sweep file.
 pub fn run(a: &RunArgs) -> Result<(), Failure> {
     let (text, origin, stem) = api::scenario_text(&a.scenario)?;
@@ -144,45 +136,21 @@ pub fn run(a: &RunArgs) -> Result<(), Failure> {
     }
     let points = sweep::expand(&text, &origin, &stem, &a.study.overrides(), &axes).map_err(Failure::input)?;
     warn_implausible(&points.iter().map(|p| &p.scenario).collect::<Vec<_>>(), &origin);
-    run_sweep(&points, &a.study, &origin)
+    run_sweep(points, &a.study, &origin)
 }
 
-/// Runs every grid point of a sweep: reference truth and study per point,
-/// one progress bar over all the study paths, one long table at the end.
-fn run_sweep(points: &[sweep::Point], a: &StudyArgs, origin: &str) -> Result<(), Failure> {
+/// Runs every grid point of a sweep, one progress bar over all the study
+/// paths, one long table at the end.
+fn run_sweep(points: Vec<sweep::Point>, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
+    a.costs(1, "a sweep (put a list of cost_bps under [portfolio] to sweep costs)")?;
     let name = &points[0].scenario.name;
     let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{name}-sweep")));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
-    let threads = threads(a);
-    let total: usize = points.iter().map(|p| p.scenario.paths).sum();
-    let asset_dates = points.iter().map(|p| study_asset_dates(&p.scenario)).sum();
-    progress::warn_long(asset_dates, &format!("{} grid points", points.len()), threads, a.quiet);
-    let bar = progress::bar(total, a.quiet, "sweep");
-    let mut done = 0;
-    let mut rows = Vec::with_capacity(points.len());
-    for p in points {
-        a.costs(1, "a sweep (put a list of cost_bps under [portfolio] to sweep costs)")?;
-        let label = p.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
-        let at = |e: &dyn std::fmt::Display| Failure::input(format!("{origin} (grid point {label}): {e}"));
-        let s = p.scenario.revised(&Overrides { cost_bps: a.one_cost(), ..Default::default() }).map_err(|e| at(&e))?;
-        let setup = Setup::new(s).map_err(|e| at(&e))?;
-        let portfolio = PortfolioTruth::compute(&setup, threads, &|_| {});
-        let result = study::run(&setup, &portfolio, &[], threads, &|d| bar.set_position((done + d) as u64));
-        done += setup.scenario.paths;
-        rows.push(report::SweepPoint::new(p, &setup, &portfolio, result));
-    }
-    bar.finish_and_clear();
-    api::finite(&rows)?;
-    let mut files =
-        vec![("sweep.json".to_string(), report::sweep_json(&rows)), ("sweep.csv".into(), report::sweep_csv(&rows))];
-    let charts = api::charts(!a.no_charts, || report::sweep_charts(&rows))?;
-    files.extend(charts.files);
-    let parameters = report::html::sweep_parameters(points);
-    let page = report::html::sweep_page(name, &rows, parameters, charts.inline);
-    files.push(("report.html".into(), report::html::render(&page, &report::Made::now())));
+    let outcome = api::sweep(points, origin, a.one_cost(), threads(a), &progress::Bars::new(a.quiet))?;
+    let files = outcome.files(!a.no_charts, &report::Made::now())?;
     out.commit(&files).map_err(Failure::other)?;
     if !a.quiet {
-        let mut text = report::sweep_terminal(&rows);
+        let mut text = outcome.terminal();
         text.push_str(&super::outputs_line(&out_dir, &files));
         print(&text)?;
     }
