@@ -6,12 +6,8 @@ use crate::calibrate;
 use crate::own_data::{self, BlendWeight, CalibratedNet, CalibratedStudy, MeasureResult, Settings};
 use crate::reader::{Column, ReadOptions, ReadPanel};
 use crate::report;
-use crate::rule::PerRule;
 use crate::simulate::Setup;
 use std::path::{Path, PathBuf};
-
-/// The smallest reference simulation a scenario accepts (`portfolio.reference_paths`).
-const MIN_REFERENCE_PATHS: usize = 10;
 
 /// Where the panel comes from.
 #[derive(Debug, Clone)]
@@ -262,50 +258,35 @@ fn settings_json(source: &PanelSource, o: &MeasureOptions, r: &MeasureResult, l:
 
 /// The study on the calibrated scenario: how often a history like the user's
 /// picks the right horizon, and the spread of each mean across its histories.
-/// Only the horizon rules are reported, so the reference simulation behind
-/// the net-IR truth is cut to its minimum here (it would otherwise cost
-/// `reference_paths` full-size histories); the written `calibrated.toml`
-/// keeps the default for `lagfold run`.
+/// Without costs only the horizon rules are reported, so the study runs
+/// without the portfolio layer (no reference simulation, no books); with
+/// costs the net-IR truth needs the full reference simulation.
 fn calibrated_study(
     scenario: &crate::scenario::Scenario,
     o: &MeasureOptions,
     progress: &dyn Progress,
 ) -> Result<(CalibratedStudy, SimulatedSpread), Error> {
-    let changes = Overrides {
-        target_vol: o.target_vol,
-        // The net-IR truth needs the full reference simulation.
-        reference_paths: if o.cost_bps.is_empty() { Some(MIN_REFERENCE_PATHS) } else { None },
-        ..Default::default()
-    };
+    let changes = Overrides { target_vol: o.target_vol, ..Default::default() };
     let revised = scenario.revised(&changes).map_err(|e| Error::Input(format!("calibrated.toml: {e}")))?;
     let scenario = at_cost(&revised, o.cost_bps.first().copied(), "calibrated.toml")?;
     let target_vol = scenario.portfolio.target_vol;
     let setup = Setup::new(scenario).map_err(|e| Error::Input(format!("calibrated.toml: {e}")))?;
     let threads = super::threads_or_all(o.threads);
     let s = &setup.scenario;
-    super::note_long(progress, s.paths + s.portfolio.reference_paths, s, threads);
-    let portfolio = stage(progress, "reference", s.portfolio.reference_paths, |p| {
-        crate::portfolio::PortfolioTruth::compute(&setup, threads, p)
-    });
-    let r = stage(progress, "study", s.paths, |p| crate::study::run(&setup, &portfolio, &o.cost_bps, threads, p));
-    let net = r
-        .cost_sweep
-        .iter()
-        .map(|row| CalibratedNet {
-            cost_bps: row.cost_bps,
-            true_best_holding: row.true_best_holding,
-            hit_rate: row.measured.hit_rate,
-            hit_rate_se: row.measured.hit_rate_se,
-            hit_rate_ci: row.measured.hit_rate_ci,
-            near_hit_rate: row.measured.near_hit_rate,
-            near_hit_rate_se: row.measured.near_hit_rate_se,
-            regret_bps_year_mean: row.measured.regret_bps_year_mean,
-            regret_bps_year_mean_se: row.measured.regret_bps_year_total_se(),
-            target_vol,
-        })
-        .collect();
-    let rules = PerRule { peak: &r.rules.peak, formula: &r.rules.formula, fitted: &r.rules.fitted };
-    let sqrt_paths = (r.paths as f64).sqrt();
+    let (horizons, net) = if o.cost_bps.is_empty() {
+        super::note_long(progress, s.paths, s, threads);
+        (stage(progress, "study", s.paths, |p| crate::study::run_horizons(&setup, threads, p)), Vec::new())
+    } else {
+        super::note_long(progress, s.paths + s.portfolio.reference_paths, s, threads);
+        let portfolio = stage(progress, "reference", s.portfolio.reference_paths, |p| {
+            crate::portfolio::PortfolioTruth::compute(&setup, threads, p)
+        });
+        let r = stage(progress, "study", s.paths, |p| crate::study::run(&setup, &portfolio, &o.cost_bps, threads, p));
+        let net = r.cost_sweep.iter().map(|row| calibrated_net(row, target_vol)).collect();
+        (r.horizons(), net)
+    };
+    let rules = &horizons.rules;
+    let sqrt_paths = (horizons.paths as f64).sqrt();
     let spread = |c: &crate::study::CurveStats| c.mean_se.iter().map(|s| s.map(|s| s * sqrt_paths)).collect();
     Ok((
         CalibratedStudy {
@@ -313,7 +294,7 @@ fn calibrated_study(
             assets: s.assets,
             history: s.history,
             what_if: None,
-            paths: r.paths,
+            paths: horizons.paths,
             true_best_horizon: setup.truth.best_horizon,
             near_hit_rate: rules.map(|x| x.near_hit_rate),
             near_hit_rate_se: rules.map(|x| x.near_hit_rate_se),
@@ -321,8 +302,24 @@ fn calibrated_study(
             regret_rel_mean: rules.map(|x| x.regret_rel_mean),
             net,
         },
-        [spread(&r.lagged_ic), spread(&r.horizon_ic)],
+        [spread(&horizons.lagged_ic), spread(&horizons.horizon_ic)],
     ))
+}
+
+/// The net-IR rule's record at one cost of the calibrated study.
+fn calibrated_net(row: &crate::study::SweepRow, target_vol: f64) -> CalibratedNet {
+    CalibratedNet {
+        cost_bps: row.cost_bps,
+        true_best_holding: row.true_best_holding,
+        hit_rate: row.measured.hit_rate,
+        hit_rate_se: row.measured.hit_rate_se,
+        hit_rate_ci: row.measured.hit_rate_ci,
+        near_hit_rate: row.measured.near_hit_rate,
+        near_hit_rate_se: row.measured.near_hit_rate_se,
+        regret_bps_year_mean: row.measured.regret_bps_year_mean,
+        regret_bps_year_mean_se: row.measured.regret_bps_year_total_se(),
+        target_vol,
+    }
 }
 
 /// The spread of the mean lagged and horizon ICs across the calibrated study's histories.

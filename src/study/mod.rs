@@ -17,7 +17,7 @@ pub use worker::{Worker, simulate_all};
 
 use crate::measure::fit::Family;
 use crate::portfolio::PortfolioTruth;
-use crate::rule::Rule;
+use crate::rule::{PerRule, Rule};
 use crate::stats::{BAND_LEVELS, Moments, quantile_sorted};
 use crate::stats::{argmax1, near_set};
 use serde::Serialize;
@@ -63,6 +63,37 @@ pub struct StudyResult {
     pub cost_sweep: Vec<SweepRow>,
 }
 
+/// The horizon rules' record alone: what a study without the portfolio layer
+/// (no books per path, no reference simulation) reports.
+#[derive(Debug, Clone, Serialize)]
+pub struct HorizonStudy {
+    /// Paths simulated.
+    pub paths: usize,
+    /// Master seed.
+    pub seed: u64,
+    /// Standard-error method of the per-path estimators.
+    pub se_method: String,
+    /// Each horizon rule's record.
+    pub rules: PerRule<RuleStats>,
+    /// The horizon rules compared path by path.
+    pub ranking: RuleRanking,
+    /// How often the fitted rule chose each family.
+    pub fitted_families: BTreeMap<String, u64>,
+    /// Measured mean lagged IC across paths.
+    pub lagged_ic: CurveStats,
+    /// Measured mean horizon IC across paths.
+    pub horizon_ic: CurveStats,
+    /// Measured mean rank lagged IC (when `rank_ic`).
+    pub rank_lagged_ic: Option<CurveStats>,
+}
+
+/// The study of the horizon rules alone, without the portfolio layer: the
+/// same paths and choices as [`run`] (each path's stream depends only on the
+/// seed and its index), at the cost of simulating and measuring them.
+pub fn run_horizons(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> HorizonStudy {
+    horizons(setup, &simulate_all(setup, false, threads, progress))
+}
+
 /// Runs every path on `threads` threads, reporting paths done to `progress`.
 /// `sweep` lists one-way costs (basis points) at which the net optimum is
 /// also reported (truth from the reference sums, measured from each path's).
@@ -73,7 +104,7 @@ pub fn run(
     threads: usize,
     progress: &(dyn Fn(usize) + Sync),
 ) -> StudyResult {
-    let outcomes = simulate_all(setup, threads, progress);
+    let outcomes = simulate_all(setup, true, threads, progress);
     let mut result = aggregate(setup, portfolio, &outcomes);
     result.cost_sweep = sweep.iter().map(|&bps| sweep_row(setup, portfolio, bps, &outcomes)).collect();
     result
@@ -182,8 +213,8 @@ fn curve_stats<'a>(rows: impl Fn(usize) -> &'a [f64], paths: usize, len: usize) 
     }
 }
 
-/// Folds path outcomes (in path order) into the study's results.
-pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes) -> StudyResult {
+/// Folds path outcomes (in path order) into the horizon rules' record.
+fn horizons(setup: &Setup, outcomes: &Outcomes) -> HorizonStudy {
     let l = setup.scenario.horizons;
     let t = &setup.truth;
     let target = Target { truth: &t.horizon_ic, best: t.best_horizon, near: &t.near_best };
@@ -196,29 +227,66 @@ pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes)
             |p, n| outcomes.horizon(p)[n - 1],
         )
     };
-    let c = portfolio.cost_bps * 1e-4;
-    let ppy = setup.scenario.periods_per_year;
     let mut fitted_families: BTreeMap<String, u64> = Family::ALL.iter().map(|f| (f.name().to_string(), 0)).collect();
     for p in 0..outcomes.paths() {
         *fitted_families.entry(outcomes.choices(p).family.name().to_string()).or_default() += 1;
     }
-    StudyResult {
+    HorizonStudy {
         paths: outcomes.paths(),
         seed: setup.scenario.seed,
         se_method: crate::measure::hac::METHOD.into(),
         ranking: ranking::rank(&target, outcomes),
-        rules: RulesOut {
-            peak: stats(Rule::Peak),
-            formula: stats(Rule::Formula),
-            fitted: stats(Rule::Fitted),
-            net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear_paths, c, outcomes),
-        },
-        cost_bps: portfolio.cost_bps,
-        net_ir: net_ir_bands(outcomes, c, ppy, l),
-        cost_sweep: Vec::new(),
+        rules: PerRule::from_fn(stats),
         fitted_families,
         lagged_ic: curve_stats(|p| outcomes.lagged(p), outcomes.paths(), l),
         horizon_ic: curve_stats(|p| outcomes.horizon(p), outcomes.paths(), l),
         rank_lagged_ic: setup.scenario.rank_ic.then(|| curve_stats(|p| outcomes.rank_lagged(p), outcomes.paths(), l)),
+    }
+}
+
+impl StudyResult {
+    /// The horizon rules' part of the study.
+    pub fn horizons(&self) -> HorizonStudy {
+        HorizonStudy {
+            paths: self.paths,
+            seed: self.seed,
+            se_method: self.se_method.clone(),
+            rules: PerRule {
+                peak: self.rules.peak.clone(),
+                formula: self.rules.formula.clone(),
+                fitted: self.rules.fitted.clone(),
+            },
+            ranking: self.ranking.clone(),
+            fitted_families: self.fitted_families.clone(),
+            lagged_ic: self.lagged_ic.clone(),
+            horizon_ic: self.horizon_ic.clone(),
+            rank_lagged_ic: self.rank_lagged_ic.clone(),
+        }
+    }
+}
+
+/// Folds path outcomes (in path order, with their books) into the study's results.
+pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes) -> StudyResult {
+    let h = horizons(setup, outcomes);
+    let c = portfolio.cost_bps * 1e-4;
+    let ppy = setup.scenario.periods_per_year;
+    StudyResult {
+        paths: h.paths,
+        seed: h.seed,
+        se_method: h.se_method,
+        ranking: h.ranking,
+        rules: RulesOut {
+            peak: h.rules.peak,
+            formula: h.rules.formula,
+            fitted: h.rules.fitted,
+            net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear_paths, c, outcomes),
+        },
+        cost_bps: portfolio.cost_bps,
+        net_ir: net_ir_bands(outcomes, c, ppy, setup.scenario.horizons),
+        cost_sweep: Vec::new(),
+        fitted_families: h.fitted_families,
+        lagged_ic: h.lagged_ic,
+        horizon_ic: h.horizon_ic,
+        rank_lagged_ic: h.rank_lagged_ic,
     }
 }

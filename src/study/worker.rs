@@ -55,10 +55,12 @@ impl Worker {
     }
 }
 
-/// Simulates every path; the outcomes come back in path order.
-pub fn simulate_all(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> Outcomes {
+/// Simulates every path, with the linear books of every holding length when
+/// `books`; the outcomes come back in path order.
+pub fn simulate_all(setup: &Setup, books: bool, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> Outcomes {
     let s = &setup.scenario;
     let mut out = Outcomes::with_capacity(s.paths, s.horizons, s.rank_ic);
-    run_in_order(threads, s.paths, || Worker::new(s), |w, p| w.run_path(setup, p), |o| out.push(o), progress);
+    let path = |w: &mut Worker, p| if books { w.run_path(setup, p) } else { w.measure_path(setup, p) };
+    run_in_order(threads, s.paths, || Worker::new(s), path, |o| out.push(o), progress);
     out
 }
