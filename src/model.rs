@@ -106,27 +106,76 @@ fn two_exponential_loadings(alpha: f64, lambda: f64, beta: f64, rho: f64, k_max:
     b
 }
 
-/// The generator's parameters, derived from a validated scenario.
+/// The generator's parameters, derived from a validated scenario by
+/// [`Model::new`] (its only constructor); read through the methods of the
+/// fields' names.
 #[derive(Debug, Clone)]
 pub struct Model {
     /// Forecast autocorrelation `ρ`.
-    pub rho: f64,
+    pub(crate) rho: f64,
     /// IC volatility `v` (sd of the common shock `φ`).
-    pub ic_vol: f64,
+    pub(crate) ic_vol: f64,
     /// Persistence `ψ` of `φ`.
-    pub psi: f64,
+    pub(crate) psi: f64,
     /// The user's curve `IC_1 … IC_K` (expected per-date IC).
-    pub target: Vec<f64>,
+    pub(crate) target: Vec<f64>,
     /// Pooled correlations `g_1 … g_K` calibrated so that the per-date mean is `target`.
-    pub pooled: Vec<f64>,
+    pub(crate) pooled: Vec<f64>,
     /// Loadings `b_1 … b_K` of returns on past news.
-    pub loadings: Vec<f64>,
+    pub(crate) loadings: Vec<f64>,
     /// Idiosyncratic standard deviation `σ_e = sqrt(1 − Σb² − v²)`.
-    pub idio_sd: f64,
+    pub(crate) idio_sd: f64,
     /// `E0` and `E1` at the calibrated `g_1`.
-    pub shock_moments: (f64, f64),
+    pub(crate) shock_moments: (f64, f64),
     /// How the generator applies the loadings.
-    pub kernel: Kernel,
+    pub(crate) kernel: Kernel,
+}
+
+impl Model {
+    /// Forecast autocorrelation `ρ`.
+    pub fn rho(&self) -> f64 {
+        self.rho
+    }
+
+    /// IC volatility `v` (sd of the common shock `φ`).
+    pub fn ic_vol(&self) -> f64 {
+        self.ic_vol
+    }
+
+    /// Persistence `ψ` of `φ`.
+    pub fn psi(&self) -> f64 {
+        self.psi
+    }
+
+    /// The user's curve `IC_1 … IC_K` (expected per-date IC).
+    pub fn target(&self) -> &[f64] {
+        &self.target
+    }
+
+    /// Pooled correlations `g_1 … g_K` calibrated so that the per-date mean is `target`.
+    pub fn pooled(&self) -> &[f64] {
+        &self.pooled
+    }
+
+    /// Loadings `b_1 … b_K` of returns on past news.
+    pub fn loadings(&self) -> &[f64] {
+        &self.loadings
+    }
+
+    /// Idiosyncratic standard deviation `σ_e = sqrt(1 − Σb² − v²)`.
+    pub fn idio_sd(&self) -> f64 {
+        self.idio_sd
+    }
+
+    /// `E0` and `E1` at the calibrated `g_1`.
+    pub fn shock_moments(&self) -> (f64, f64) {
+        self.shock_moments
+    }
+
+    /// How the generator applies the loadings.
+    pub fn kernel(&self) -> Kernel {
+        self.kernel
+    }
 }
 
 impl Model {

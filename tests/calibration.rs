@@ -33,11 +33,11 @@ fn check(extra: &str, assets: usize) {
             "assets = {assets}\nhistory = 60\nhorizons = 12\npaths = 1500\nseed = 17\n{extra}\n[decay]\n{fam}\n"
         );
         let s = setup(&text);
-        kernels.push(s.model.kernel);
+        kernels.push(s.model.kernel());
         let out = simulate(&s);
         let t = &s.truth;
         for k in 1..=12 {
-            let target = s.model.target.get(k - 1).copied().unwrap_or(0.0);
+            let target = s.model.target().get(k - 1).copied().unwrap_or(0.0);
             let want = expected_sample_corr(target, assets);
             for (what, col) in [
                 ("mean lagged IC", out.iter().map(|o| o.0[k - 1]).collect::<Vec<_>>()),

@@ -29,11 +29,11 @@ fn per_date_truth_with_persistent_shocks_at_high_power() {
     let (mut power, mut lag_power) = (0.0f64, 0.0f64);
     for k in 1..=l {
         let (m, se) = mean_se(&out.iter().map(|o| o.0[k - 1]).collect::<Vec<_>>());
-        let want = expected_sample_corr(s.model.target[k - 1], n);
+        let want = expected_sample_corr(s.model.target()[k - 1], n);
         assert!((m - want).abs() < CHECK_SIGMAS * se, "lagged IC at {k}: {m} vs {want}, se {se}");
         // Without the calibration the per-date mean would sit near
         // target + (target − g_k): about ic_vol²·ρ^{k−1}·g_1 away.
-        lag_power = lag_power.max((s.model.target[k - 1] - s.model.g(k)).abs() / se);
+        lag_power = lag_power.max((s.model.target()[k - 1] - s.model.g(k)).abs() / se);
         let (m, se) = mean_se(&out.iter().map(|o| o.2[k - 1]).collect::<Vec<_>>());
         let want = expected_sample_corr(s.truth.h(k), n);
         let pooled = expected_sample_corr(s.truth.horizon_ic_pooled[k - 1], n);

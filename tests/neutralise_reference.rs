@@ -32,7 +32,7 @@ fn residuals_match_numpy_least_squares() {
         for (i, a) in assets.iter().enumerate() {
             let key = format!("{date} {a}");
             for (name, got) in
-                [("forecast", Some(p.forecast_row(t)[i])), ("return", (t + 1 < p.dates).then(|| p.return_row(t)[i]))]
+                [("forecast", Some(p.forecast_row(t)[i])), ("return", (t + 1 < p.dates()).then(|| p.return_row(t)[i]))]
             {
                 let Some(got) = got else { continue };
                 match want[name].get(&key).and_then(Value::as_f64) {

@@ -85,7 +85,7 @@ fn binary_forecast_success_ratio_is_one_plus_ic_over_two() {
     let (mut ics, mut agree, mut total) = (Vec::new(), 0, 0);
     for_each_path(&s, |p, _| {
         let sign = |v: &[f64]| v.iter().map(|x| x.signum()).collect::<Vec<_>>();
-        let binary = Panel { forecasts: sign(&p.forecasts), returns: sign(&p.returns), ..p.clone() };
+        let binary = Panel::new(p.assets(), p.dates(), sign(p.forecasts()), sign(p.returns())).unwrap();
         m.update(&binary);
         ics.extend_from_slice(m.lagged.series(1));
         let (a, t) = sign_agreement(&binary, 1, 3);
@@ -113,22 +113,24 @@ fn measured_horizon_ic_follows_the_qhs_relation_for_uncorrelated_returns() {
     let mut per_path: Vec<Vec<f64>> = Vec::new();
     for p in 0..paths {
         let mut rng = path_rng(4242, p);
-        let mut panel = Panel::zeros(n, t);
+        let mut returns = vec![0.0; n * (t - 1)];
+        let mut forecasts = vec![0.0; n * t];
         let mut extra = vec![0.0; n * ic.len()]; // returns after the last date
-        fill_normal(&mut rng, &mut panel.returns);
+        fill_normal(&mut rng, &mut returns);
         fill_normal(&mut rng, &mut extra);
-        fill_normal(&mut rng, &mut panel.forecasts);
+        fill_normal(&mut rng, &mut forecasts);
         for date in 0..t {
             for i in 0..n {
-                let mut f = resid * panel.forecasts[date * n + i];
+                let mut f = resid * forecasts[date * n + i];
                 for (k, c) in ic.iter().enumerate() {
                     let row = date + k;
-                    let r = if row < t - 1 { panel.returns[row * n + i] } else { extra[(row - (t - 1)) * n + i] };
+                    let r = if row < t - 1 { returns[row * n + i] } else { extra[(row - (t - 1)) * n + i] };
                     f += c * r;
                 }
-                panel.forecasts[date * n + i] = f;
+                forecasts[date * n + i] = f;
             }
         }
+        let panel = Panel::new(n, t, forecasts, returns).unwrap();
         m.update(&panel);
         per_path.push(m.horizon.means());
     }

@@ -36,7 +36,7 @@ fn panel(seed: u64) -> Panel {
     let mut normal = common::normals(seed);
     let forecasts: Vec<f64> = (0..T * N).map(|_| normal()).collect();
     let returns = (0..(T - 1) * N).map(|i| IC * forecasts[i] + (1.0 - IC * IC).sqrt() * normal()).collect();
-    Panel { assets: N, dates: T, forecasts, returns, has_missing: false }
+    Panel::new(N, T, forecasts, returns).unwrap()
 }
 
 #[test]
@@ -72,14 +72,11 @@ fn missing_values_thin_the_book_without_breaking_it() {
     // signal, against a per-period IR of 1.1 with σ 0.075 (Lo, 2002); the bound of a
     // half is a loose robustness check, not a closed form.
     let full = panel(12);
-    let mut thin = full.clone();
     let mut u = common::uniforms(13);
-    thin.forecasts.iter_mut().chain(thin.returns.iter_mut()).for_each(|x| {
-        if u() < 0.1 {
-            *x = f64::NAN;
-        }
-    });
-    thin.has_missing = true;
+    let mut thinned = |xs: &[f64]| xs.iter().map(|&x| if u() < 0.1 { f64::NAN } else { x }).collect::<Vec<_>>();
+    let (f, r) = (thinned(full.forecasts()), thinned(full.returns()));
+    let thin = Panel::new(full.assets(), full.dates(), f, r).unwrap();
+    assert!(thin.has_missing());
     let (a, b) = (own_books(&full, L, 20), own_books(&thin, L, 20));
     assert_eq!(a[0].n, b[0].n);
     let ir = |s: &lagfold::portfolio::BookSums| {

@@ -78,7 +78,7 @@ fn expected_gross_of_an_h_tranche_book_matches_the_large_n_formula() {
          [decay]\nfamily = \"exponential\"\nic1 = 0.05\nhalf_life = 3\n[portfolio]\nreference_paths = 100\n",
     );
     for h in 1..=6 {
-        let ic_sum: f64 = (1..=h).map(|k| s.model.target[k - 1]).sum();
+        let ic_sum: f64 = (1..=h).map(|k| s.model.target()[k - 1]).sum();
         let want = 0.05 * (std::f64::consts::PI / 2.0).sqrt() * ic_sum / h as f64;
         assert!((t.gross_mean_large_n[h - 1] - want).abs() < 1e-12);
         let se = se_over_paths(&t, h, |b| b.gross_mean()); // ≈ 2e-5, a few % of the mean

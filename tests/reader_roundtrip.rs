@@ -87,8 +87,8 @@ proptest! {
             row.iter().map(|&(f, r)| (f.unwrap_or(nan), if d + 1 < t { r.unwrap_or(nan) } else { nan })).collect()
         }));
         let got = pairs((0..t).map(|d| {
-            (0..p.assets)
-                .map(|a| (p.forecasts[d * p.assets + a], if d + 1 < t { p.returns[d * p.assets + a] } else { nan }))
+            (0..p.assets())
+                .map(|a| (p.forecasts()[d * p.assets() + a], if d + 1 < t { p.returns()[d * p.assets() + a] } else { nan }))
                 .collect()
         }));
         prop_assert_eq!(got, want);

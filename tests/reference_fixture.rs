@@ -22,7 +22,7 @@ fn floats(v: &Value) -> Vec<f64> {
 #[test]
 fn per_date_ics_means_and_newey_west_match_scipy_and_statsmodels() {
     let read = read_panel(Path::new("tests/fixtures/reference_panel.csv"), &ReadOptions::default()).unwrap();
-    assert!(read.panel.has_missing, "the fixture has a missing forecast and a missing return");
+    assert!(read.panel.has_missing(), "the fixture has a missing forecast and a missing return");
     let mut m = Measurement::new(3, true).with_min_assets(3);
     m.update(&read.panel);
     let r = reference();
@@ -54,24 +54,25 @@ fn the_dense_path_matches_scipy_on_the_complete_assets() {
     // scipy.stats.pearsonr on the same assets (`make_reference.py`, "dense").
     let read = read_panel(Path::new("tests/fixtures/reference_panel.csv"), &ReadOptions::default()).unwrap();
     let p = &read.panel;
-    let full: Vec<usize> = (0..p.assets)
+    let full: Vec<usize> = (0..p.assets())
         .filter(|&a| {
-            (0..p.dates).all(|d| p.forecasts[d * p.assets + a].is_finite())
-                && (0..p.dates - 1).all(|d| p.returns[d * p.assets + a].is_finite())
+            (0..p.dates()).all(|d| p.forecasts()[d * p.assets() + a].is_finite())
+                && (0..p.dates() - 1).all(|d| p.returns()[d * p.assets() + a].is_finite())
         })
         .collect();
     let r = reference();
     assert_eq!(full.len(), r["dense"]["assets"].as_array().unwrap().len());
     let pick = |v: &[f64], rows: usize| -> Vec<f64> {
-        (0..rows).flat_map(|d| full.iter().map(move |&a| v[d * p.assets + a])).collect()
+        (0..rows).flat_map(|d| full.iter().map(move |&a| v[d * p.assets() + a])).collect()
     };
-    let dense = lagfold::measure::Panel {
-        assets: full.len(),
-        dates: p.dates,
-        forecasts: pick(&p.forecasts, p.dates),
-        returns: pick(&p.returns, p.dates - 1),
-        has_missing: false,
-    };
+    let dense = lagfold::measure::Panel::new(
+        full.len(),
+        p.dates(),
+        pick(p.forecasts(), p.dates()),
+        pick(p.returns(), p.dates() - 1),
+    )
+    .unwrap();
+    assert!(!dense.has_missing());
     let mut m = Measurement::new(3, false).with_min_assets(3);
     m.update(&dense);
     for k in 1..=3 {

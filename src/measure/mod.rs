@@ -146,6 +146,8 @@ pub struct Measurement {
     /// Whether `fdm` and `cross` hold the last update's products (a complete
     /// panel with enough assets).
     has_products: bool,
+    /// Measure pair by pair even on complete panels.
+    pair_by_pair: bool,
 }
 
 /// The forecast-by-return products of a measured complete panel, which the
@@ -217,6 +219,14 @@ impl Measurement {
         self
     }
 
+    /// Measures every date pair by pair on the assets with both values even
+    /// on a complete panel: the path of panels with missing values, which
+    /// must agree with the complete-panel path there (for checks).
+    pub fn pair_by_pair(mut self, yes: bool) -> Self {
+        self.pair_by_pair = yes;
+        self
+    }
+
     /// Longest lag and horizon measured.
     pub fn horizons(&self) -> usize {
         self.horizons
@@ -243,7 +253,7 @@ impl Measurement {
         let (n, t, l) = (panel.assets, panel.dates, self.horizons);
         assert!(t >= l + 2, "panel has {t} dates, needs at least {}", l + 2);
         self.has_products = false;
-        if panel.has_missing {
+        if panel.has_missing || self.pair_by_pair {
             self.lagged.reset(l, t);
             self.horizon.reset(l, t);
             self.rank_lagged.reset(l, t);
@@ -414,10 +424,8 @@ mod tests {
         plain.update(&p);
         let mut dense = Measurement::new(3, true);
         dense.update(&p);
-        let mut flagged = p.clone();
-        flagged.has_missing = true;
-        let mut masked = Measurement::new(3, true);
-        masked.update(&flagged);
+        let mut masked = Measurement::new(3, true).pair_by_pair(true);
+        masked.update(&p);
         for k in 1..=3 {
             for (a, b) in dense.rank_lagged.series(k).iter().zip(masked.rank_lagged.series(k)) {
                 assert!((a - b).abs() < 1e-12);
@@ -432,9 +440,11 @@ mod tests {
             }
         }
         // Remove asset 0's forecast at date 2 and asset 1's return over (3, 4].
-        flagged.forecasts[2 * p.assets] = f64::NAN;
-        flagged.returns[3 * p.assets + 1] = f64::NAN;
-        masked.update(&flagged);
+        let mut holed = p.clone();
+        holed.forecasts[2 * p.assets] = f64::NAN;
+        holed.returns[3 * p.assets + 1] = f64::NAN;
+        holed.refresh_missing();
+        masked.update(&holed);
         let keep = |skip: &[usize]| (0..p.assets).filter(|i| !skip.contains(i)).collect::<Vec<_>>();
         let pick = |row: &[f64], idx: &[usize]| idx.iter().map(|&i| row[i]).collect::<Vec<_>>();
         // Lag 2 at date 2 uses returns over (3, 4]: drop assets 0 and 1.
@@ -457,9 +467,10 @@ mod tests {
         m.update(&p);
         let products = m.products().expect("a complete panel has products");
         assert_eq!(products.demeaned_forecasts().len(), (p.dates - 1) * p.assets);
-        let mut flagged = p.clone();
-        flagged.has_missing = true;
-        m.update(&flagged);
+        let mut holed = p.clone();
+        holed.forecasts[0] = f64::NAN;
+        holed.refresh_missing();
+        m.update(&holed);
         assert!(m.products().is_none(), "a panel with missing values has none");
         let mut few = Measurement::new(3, false).with_min_assets(p.assets + 1);
         few.update(&p);

@@ -58,12 +58,9 @@ fn summary(name: &str, kind: &str, c: &Core, dates: usize) -> SignalSummary {
 /// Measures `forecasts` in place of the panel's own (and puts them back).
 fn measure_with(read: &mut ReadPanel, forecasts: &mut Vec<f64>, s: &Settings) -> Option<Core> {
     let p = &mut read.panel;
-    let own_flag = p.has_missing;
-    std::mem::swap(&mut p.forecasts, forecasts);
-    p.refresh_missing();
+    p.swap_forecasts(forecasts);
     let c = core(p, s, false);
-    std::mem::swap(&mut p.forecasts, forecasts);
-    p.has_missing = own_flag;
+    p.swap_forecasts(forecasts);
     c
 }
 
