@@ -35,7 +35,11 @@ fn the_near_hit_rate_rises_with_history() {
         .grid
         .iter()
         .map(|g| {
-            ((g.history as f64).ln(), g.rules.peak.near_hit_rate, 1.0 / g.rules.peak.near_hit_rate_se.max(1e-3).powi(2))
+            (
+                (g.history as f64).ln(),
+                g.rules.horizon.peak.near_hit_rate,
+                1.0 / g.rules.horizon.peak.near_hit_rate_se.max(1e-3).powi(2),
+            )
         })
         .fold((vec![], vec![], vec![]), |(mut a, mut b, mut c), (x, y, w)| {
             a.push(x);
@@ -63,7 +67,7 @@ fn the_plan_agrees_with_a_direct_run_at_its_history() {
     let direct = setup(&scenario(60, ""));
     let truth = PortfolioTruth::compute(&direct, 2, &|_| {});
     let run = study::run(&direct, &truth, &[], 2, &|_| {});
-    let (a, b) = (&p.grid[1].rules, &run.rules);
+    let (a, b) = (&p.grid[1].rules.horizon, &run.rules.horizon);
     for (name, x, y) in [
         (
             "peak near-hit",
@@ -88,7 +92,11 @@ fn without_estimation_noise_every_rule_lands_in_the_near_best_set() {
     let s = setup(text);
     let truth = PortfolioTruth::compute(&s, 2, &|_| {});
     let run = study::run(&s, &truth, &[], 2, &|_| {});
-    for (name, r) in [("peak", &run.rules.peak), ("formula", &run.rules.formula), ("fitted", &run.rules.fitted)] {
+    for (name, r) in [
+        ("peak", &run.rules.horizon.peak),
+        ("formula", &run.rules.horizon.formula),
+        ("fitted", &run.rules.horizon.fitted),
+    ] {
         assert_eq!(r.near_best_rate, 1.0, "{name}: {:?} vs near-best {:?}", r.choice_counts, s.truth.near_best);
     }
     assert_eq!(run.fitted_families["exponential"], 20);

@@ -64,7 +64,7 @@ pub fn curves_csv(setup: &Setup, study: &StudyResult) -> Vec<u8> {
 /// `choices.csv`: per horizon, how often each rule chose it (count and share).
 pub fn choices_csv(setup: &Setup, study: &StudyResult) -> Vec<u8> {
     let t = &setup.truth;
-    let rules = [&study.rules.peak, &study.rules.formula, &study.rules.fitted];
+    let rules = [&study.rules.horizon.peak, &study.rules.horizon.formula, &study.rules.horizon.fitted];
     let mut w = csv::Writer::from_writer(Vec::new());
     let mut header = vec!["horizon".to_string(), "is_best".into(), "near_best".into(), "true_horizon_ic".into()];
     for r in Rule::HORIZON {

@@ -67,11 +67,11 @@ pub fn plan_terminal(scenario: &Scenario, plan: &PlanResult) -> String {
             out,
             "  {:>11} {:<14} {:<14} {:<14} {:<14} {:>6}",
             format!("{} ({:.1}y)", p.history, years(p.history)),
-            cell(&p.rules.peak),
-            cell(&p.rules.formula),
-            cell(&p.rules.fitted),
+            cell(&p.rules.horizon.peak),
+            cell(&p.rules.horizon.formula),
+            cell(&p.rules.horizon.fitted),
             cell(&p.rules.net_ir),
-            pct(p.rules.peak.regret_rel_mean)
+            pct(p.rules.horizon.peak.regret_rel_mean)
         );
     }
     match &plan.answer {

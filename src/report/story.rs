@@ -66,7 +66,7 @@ impl Study<'_> {
         let (s, st) = (&self.setup.scenario, self.study);
         let unit = self.unit();
         let net = &st.rules.net_ir;
-        let peak = &st.rules.peak;
+        let peak = &st.rules.horizon.peak;
         let (lo, hi) = (net.choice_quantiles[0], net.choice_quantiles[4]);
         let se = net.regret_bps_year_total_se().map_or(String::new(), |se| format!(" ± {}", f("", se, Fmt::Num(1))));
         let mut text = format!(

@@ -241,10 +241,10 @@ pub fn terminal_summary(story: &Study) -> String {
     ] {
         let _ = writeln!(out, "  {a:<8}  {b:<14} {c:<14} {d:<14} {e:<12} {f}");
     }
-    rule_row(&mut out, "peak", &study.rules.peak);
-    rule_row(&mut out, "formula", &study.rules.formula);
-    rule_row(&mut out, "fitted", &study.rules.fitted);
-    let p = &study.rules.peak;
+    rule_row(&mut out, "peak", &study.rules.horizon.peak);
+    rule_row(&mut out, "formula", &study.rules.horizon.formula);
+    rule_row(&mut out, "fitted", &study.rules.horizon.fitted);
+    let p = &study.rules.horizon.peak;
     let _ = writeln!(
         out,
         "  Winner's curse: the measured peak overstates the true horizon IC at the chosen horizon by {:.4} on average ({} of the best).",

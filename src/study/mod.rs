@@ -251,11 +251,7 @@ impl StudyResult {
             paths: self.paths,
             seed: self.seed,
             se_method: self.se_method.clone(),
-            rules: PerRule {
-                peak: self.rules.peak.clone(),
-                formula: self.rules.formula.clone(),
-                fitted: self.rules.fitted.clone(),
-            },
+            rules: self.rules.horizon.clone(),
             ranking: self.ranking.clone(),
             fitted_families: self.fitted_families.clone(),
             lagged_ic: self.lagged_ic.clone(),
@@ -276,9 +272,7 @@ pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes)
         se_method: h.se_method,
         ranking: h.ranking,
         rules: RulesOut {
-            peak: h.rules.peak,
-            formula: h.rules.formula,
-            fitted: h.rules.fitted,
+            horizon: h.rules,
             net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear_paths, c, outcomes),
         },
         cost_bps: portfolio.cost_bps,

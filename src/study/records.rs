@@ -3,7 +3,7 @@
 
 use super::Outcomes;
 use crate::portfolio::BookSums;
-use crate::rule::Rule;
+use crate::rule::{PerRule, Rule};
 use crate::simulate::Setup;
 use crate::stats::{BAND_LEVELS, Moments, Proportion, quantile_discrete, quantile_sorted};
 use crate::stats::{argmax1, near_set};
@@ -77,15 +77,12 @@ impl RuleStats {
     }
 }
 
-/// The three rules' results.
+/// Every rule's results, written `{"peak": …, "formula": …, "fitted": …, "net_ir": …}`.
 #[derive(Debug, Clone, Serialize)]
 pub struct RulesOut {
-    /// Peak of measured horizon IC.
-    pub peak: RuleStats,
-    /// Peak of the formula from measured lagged ICs.
-    pub formula: RuleStats,
-    /// Optimum of the fitted decay curve.
-    pub fitted: RuleStats,
+    /// The horizon rules.
+    #[serde(flatten)]
+    pub horizon: PerRule<RuleStats>,
     /// Holding length with the best measured net IR of the linear book.
     pub net_ir: RuleStats,
 }
@@ -94,10 +91,8 @@ impl RulesOut {
     /// One rule's record.
     pub fn get(&self, rule: Rule) -> &RuleStats {
         match rule {
-            Rule::Peak => &self.peak,
-            Rule::Formula => &self.formula,
-            Rule::Fitted => &self.fitted,
             Rule::NetIr => &self.net_ir,
+            horizon => &self.horizon[horizon],
         }
     }
 }

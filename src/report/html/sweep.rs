@@ -33,7 +33,7 @@ pub fn sweep_page(
     parameters: serde_json::Value,
     charts: Vec<(String, String, String)>,
 ) -> Page {
-    let near = |i: usize| points[i].rules.peak.near_hit_rate;
+    let near = |i: usize| points[i].rules.horizon.peak.near_hit_rate;
     let lo = (0..points.len()).min_by(|&a, &b| near(a).total_cmp(&near(b))).unwrap_or(0);
     let hi = (0..points.len()).max_by(|&a, &b| near(a).total_cmp(&near(b))).unwrap_or(0);
     let at = |i: usize| points[i].at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
@@ -77,8 +77,16 @@ pub fn sweep_page(
             let mut r = vec![format!("#{}", i + 1)];
             r.extend(p.at.iter().map(|(_, v)| esc(v)));
             r.push(int(&format!("/grid/{i}/best_horizon"), p.best_horizon));
-            r.push(fig(&format!("/grid/{i}/rules/peak/near_hit_rate"), p.rules.peak.near_hit_rate, Fmt::Pct(1)));
-            r.push(fig(&format!("/grid/{i}/rules/peak/regret_rel_mean"), p.rules.peak.regret_rel_mean, Fmt::Pct(2)));
+            r.push(fig(
+                &format!("/grid/{i}/rules/peak/near_hit_rate"),
+                p.rules.horizon.peak.near_hit_rate,
+                Fmt::Pct(1),
+            ));
+            r.push(fig(
+                &format!("/grid/{i}/rules/peak/regret_rel_mean"),
+                p.rules.horizon.peak.regret_rel_mean,
+                Fmt::Pct(2),
+            ));
             r
         })
         .collect();
