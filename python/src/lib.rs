@@ -5,7 +5,7 @@
 //! and data frames. Bad input raises `ValueError`, anything else
 //! `RuntimeError`, with the command line's messages.
 
-use lagfold::api::{self, Column, Overrides, PanelSource, Scenario, Silent};
+use lagfold::api::{self, Column, Outcome, Overrides, PanelSource, Scenario, Silent};
 use lagfold::report::Made;
 use numpy::PyReadonlyArray1;
 use pyo3::exceptions::{PyRuntimeError, PyValueError};
@@ -32,8 +32,21 @@ fn scenario(kind: &str, text: &str, ov: &Overrides) -> Result<(Scenario, String)
     }
 }
 
-/// The files as a `dict` of `bytes`, and the terminal text.
-fn output(py: Python<'_>, files: api::Files, text: String) -> PyResult<(Bound<'_, PyDict>, String)> {
+/// Runs `work` with the GIL released and hands back its outcome's files (a
+/// `dict` of `bytes`, charts when `charts`, the report made by `command`)
+/// and terminal text.
+fn run<'py, O: Outcome>(
+    py: Python<'py>,
+    charts: bool,
+    command: String,
+    work: impl FnOnce() -> Result<O, api::Error> + Send,
+) -> PyResult<(Bound<'py, PyDict>, String)> {
+    let (files, text) = py
+        .detach(|| {
+            let outcome = work()?;
+            Ok((outcome.files(charts, &Made::now_by(command))?, outcome.terminal()))
+        })
+        .map_err(raise)?;
     let d = PyDict::new(py);
     for (name, bytes) in files {
         d.set_item(name, PyBytes::new(py, &bytes))?;
@@ -63,15 +76,10 @@ fn study<'py>(
     command: String,
 ) -> PyResult<(Bound<'py, PyDict>, String)> {
     let ov = Overrides { assets, history, horizons, paths, seed, target_vol, ..Default::default() };
-    let (files, text) = py
-        .detach(|| {
-            let (s, origin) = scenario(kind, text, &ov)?;
-            let o = api::StudyOptions { threads, cost_bps, more_history };
-            let outcome = api::study(&s, &origin, &o, &Silent)?;
-            Ok((outcome.files(charts, &Made::now_by(command))?, outcome.terminal()))
-        })
-        .map_err(raise)?;
-    output(py, files, text)
+    run(py, charts, command, || {
+        let (s, origin) = scenario(kind, text, &ov)?;
+        api::study(&s, &origin, &api::StudyOptions { threads, cost_bps, more_history }, &Silent)
+    })
 }
 
 /// Runs a plan.
@@ -97,15 +105,10 @@ fn plan<'py>(
 ) -> PyResult<(Bound<'py, PyDict>, String)> {
     let goal = lagfold::plan::Goal::parse(target).map_err(|e| PyValueError::new_err(format!("target: {e}")))?;
     let ov = Overrides { assets, horizons, paths, seed, target_vol, ..Default::default() };
-    let (files, text) = py
-        .detach(|| {
-            let (s, origin) = scenario(kind, text, &ov)?;
-            let o = api::PlanOptions { histories, goal, cost_bps, threads };
-            let outcome = api::plan(&s, &origin, &o, &Silent)?;
-            Ok((outcome.files(charts, &Made::now_by(command))?, outcome.terminal()))
-        })
-        .map_err(raise)?;
-    output(py, files, text)
+    run(py, charts, command, || {
+        let (s, origin) = scenario(kind, text, &ov)?;
+        api::plan(&s, &origin, &api::PlanOptions { histories, goal, cost_bps, threads }, &Silent)
+    })
 }
 
 /// Runs a stress test.
@@ -128,14 +131,10 @@ fn stress<'py>(
     command: String,
 ) -> PyResult<(Bound<'py, PyDict>, String)> {
     let ov = Overrides { assets, history, horizons, seed, target_vol, ..Default::default() };
-    let (files, text) = py
-        .detach(|| {
-            let (s, origin) = scenario(kind, text, &ov)?;
-            let outcome = api::stress(&s, &origin, &api::StressOptions { cost_bps, threads }, &Silent)?;
-            Ok((outcome.files(charts, &Made::now_by(command))?, outcome.terminal()))
-        })
-        .map_err(raise)?;
-    output(py, files, text)
+    run(py, charts, command, || {
+        let (s, origin) = scenario(kind, text, &ov)?;
+        api::stress(&s, &origin, &api::StressOptions { cost_bps, threads }, &Silent)
+    })
 }
 
 /// One simulated history as the CSV `lagfold panel` writes.
@@ -252,13 +251,7 @@ fn measure<'py>(
         target_vol,
         threads,
     };
-    let (files, text) = py
-        .detach(|| {
-            let outcome = api::measure(&source, &o, &Silent)?;
-            Ok((outcome.files(charts, &Made::now_by(command))?, outcome.terminal()))
-        })
-        .map_err(raise)?;
-    output(py, files, text)
+    run(py, charts, command, || api::measure(&source, &o, &Silent))
 }
 
 /// The names of the built-in presets.

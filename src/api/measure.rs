@@ -343,13 +343,13 @@ fn compare_errors(result: &mut MeasureResult, sims: &SimulatedSpread) {
     }
 }
 
-impl MeasureOutcome {
+impl super::Outcome for MeasureOutcome {
     /// `measure.json`, the CSV tables, `calibrated.toml`, the charts (when
     /// `draw_charts`) and `report.html`.
     ///
     /// # Errors
     /// A result that is not finite, or a chart that cannot be drawn.
-    pub fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
+    fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
         let r = &self.result;
         finite(r)?;
         let mut files = Vec::new();
@@ -373,7 +373,7 @@ impl MeasureOutcome {
     }
 
     /// The terminal summary.
-    pub fn terminal(&self) -> String {
+    fn terminal(&self) -> String {
         report::measure_terminal(&self.result)
     }
 }

@@ -59,6 +59,20 @@ impl Error {
 /// Output files: `(name, bytes)`, in the order they are listed.
 pub type Files = Vec<(String, Vec<u8>)>;
 
+/// What every operation's result gives: the files the command line writes
+/// (and the Python module returns) and the terminal summary.
+pub trait Outcome {
+    /// Every output file, the charts drawn when `draw_charts`, the report
+    /// made with `made`.
+    ///
+    /// # Errors
+    /// A result that is not finite, or a chart that cannot be drawn.
+    fn files(&self, draw_charts: bool, made: &crate::report::Made) -> Result<Files, Error>;
+
+    /// The terminal summary.
+    fn terminal(&self) -> String;
+}
+
 /// Reports on long work: a stage of `total` paths begins, paths are done,
 /// the stage ends. Called from the calling thread only.
 pub trait Progress: Sync {

@@ -90,12 +90,12 @@ pub fn plan(scenario: &Scenario, origin: &str, o: &PlanOptions, progress: &dyn P
     Ok(PlanOutcome { scenario: setup.scenario, goal: o.goal, result })
 }
 
-impl PlanOutcome {
+impl super::Outcome for PlanOutcome {
     /// `plan.json`, `plan.csv`, the charts (when `draw_charts`) and `report.html`.
     ///
     /// # Errors
     /// A result that is not finite, or a chart that cannot be drawn.
-    pub fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
+    fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
         finite(&self.result)?;
         let (s, r) = (&self.scenario, &self.result);
         let mut files =
@@ -108,7 +108,7 @@ impl PlanOutcome {
     }
 
     /// The terminal summary.
-    pub fn terminal(&self) -> String {
+    fn terminal(&self) -> String {
         report::plan_terminal(&self.scenario, &self.result)
     }
 }

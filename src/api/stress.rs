@@ -56,12 +56,12 @@ pub fn stress(
     Ok(StressOutcome { scenario, result })
 }
 
-impl StressOutcome {
+impl super::Outcome for StressOutcome {
     /// `stress.json`, `stress.csv`, the charts (when `draw_charts`) and `report.html`.
     ///
     /// # Errors
     /// A result that is not finite, or a chart that cannot be drawn.
-    pub fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
+    fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
         finite(&self.result)?;
         let (s, r) = (&self.scenario, &self.result);
         let mut files =
@@ -74,7 +74,7 @@ impl StressOutcome {
     }
 
     /// The terminal summary.
-    pub fn terminal(&self) -> String {
+    fn terminal(&self) -> String {
         report::stress_terminal(&self.scenario, &self.result)
     }
 }

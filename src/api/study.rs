@@ -76,13 +76,15 @@ impl StudyOutcome {
     pub fn summary(&self) -> Summary<'_> {
         Summary::new(&self.story())
     }
+}
 
+impl super::Outcome for StudyOutcome {
     /// Every output file: `summary.json`, the CSV tables, the charts (when
     /// `draw_charts`) and `report.html` made with `made`.
     ///
     /// # Errors
     /// A result that is not finite, or a chart that cannot be drawn.
-    pub fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
+    fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
         let summary = self.summary();
         finite(&summary)?;
         let (setup, result) = (&self.setup, &self.result);
@@ -103,7 +105,7 @@ impl StudyOutcome {
     }
 
     /// The terminal summary.
-    pub fn terminal(&self) -> String {
+    fn terminal(&self) -> String {
         report::terminal_summary(&self.story())
     }
 }

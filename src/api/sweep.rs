@@ -60,12 +60,12 @@ pub fn sweep(
     Ok(SweepOutcome { points, rows })
 }
 
-impl SweepOutcome {
+impl super::Outcome for SweepOutcome {
     /// `sweep.json`, `sweep.csv`, the charts (when `draw_charts`) and `report.html`.
     ///
     /// # Errors
     /// A result that is not finite, or a chart that cannot be drawn.
-    pub fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
+    fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
         let rows = &self.rows;
         finite(rows)?;
         let mut files =
@@ -80,7 +80,7 @@ impl SweepOutcome {
     }
 
     /// The terminal table.
-    pub fn terminal(&self) -> String {
+    fn terminal(&self) -> String {
         report::sweep_terminal(&self.rows)
     }
 }

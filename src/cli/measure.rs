@@ -2,7 +2,7 @@
 //! with the very estimators the study uses.
 
 use super::run::{StudyArgs, threads};
-use super::{Failure, print, progress};
+use super::{Failure, progress};
 use crate::{api, report};
 use std::path::{Path, PathBuf};
 
@@ -144,12 +144,5 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
         a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-measure", source.stem())));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let outcome = api::measure(&source, &options, &progress::Bars::new(a.study.quiet))?;
-    let files = outcome.files(!a.study.no_charts, &report::Made::now())?;
-    out.commit(&files).map_err(Failure::other)?;
-    if !a.study.quiet {
-        let mut text = outcome.terminal();
-        text.push_str(&super::outputs_line(&out_dir, &files));
-        print(&text)?;
-    }
-    Ok(())
+    super::deliver(&outcome, out, &out_dir, a.study.no_charts, a.study.quiet)
 }

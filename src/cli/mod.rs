@@ -140,6 +140,26 @@ pub(crate) fn print(text: &str) -> Result<(), Failure> {
     }
 }
 
+/// Writes an outcome's files into the claimed folder `out` (at `dir`),
+/// charts unless `no_charts`, and unless `quiet` prints its summary and the
+/// closing line naming what was written.
+pub(crate) fn deliver(
+    outcome: &impl crate::api::Outcome,
+    out: crate::report::OutDir,
+    dir: &std::path::Path,
+    no_charts: bool,
+    quiet: bool,
+) -> Result<(), Failure> {
+    let files = outcome.files(!no_charts, &crate::report::Made::now())?;
+    out.commit(&files).map_err(Failure::other)?;
+    if !quiet {
+        let mut text = outcome.terminal();
+        text.push_str(&outputs_line(dir, &files));
+        print(&text)?;
+    }
+    Ok(())
+}
+
 /// The closing line naming what was written: data files, then how many charts.
 pub(crate) fn outputs_line(dir: &std::path::Path, files: &[(String, Vec<u8>)]) -> String {
     let data: Vec<&str> =

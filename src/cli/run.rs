@@ -1,7 +1,7 @@
 //! `lagfold run <scenario>` and `lagfold demo`: read the scenario → set up the
 //! truth → run the study → write outputs → print the summary.
 
-use super::{Failure, print, progress};
+use super::{Failure, progress};
 use crate::api;
 use crate::report;
 use crate::scenario::{self, Overrides, Scenario, presets, sweep};
@@ -147,14 +147,7 @@ fn run_sweep(points: Vec<sweep::Point>, a: &StudyArgs, origin: &str) -> Result<(
     let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{name}-sweep")));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let outcome = api::sweep(points, origin, a.one_cost(), threads(a), &progress::Bars::new(a.quiet))?;
-    let files = outcome.files(!a.no_charts, &report::Made::now())?;
-    out.commit(&files).map_err(Failure::other)?;
-    if !a.quiet {
-        let mut text = outcome.terminal();
-        text.push_str(&super::outputs_line(&out_dir, &files));
-        print(&text)?;
-    }
-    Ok(())
+    super::deliver(&outcome, out, &out_dir, a.no_charts, a.quiet)
 }
 
 /// `lagfold demo`.
@@ -171,12 +164,5 @@ fn execute(scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failur
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let options = api::StudyOptions { threads: threads(a), cost_bps: a.cost_bps.clone(), more_history: true };
     let outcome = api::study(&scenario, origin, &options, &progress::Bars::new(a.quiet))?;
-    let files = outcome.files(!a.no_charts, &report::Made::now())?;
-    out.commit(&files).map_err(Failure::other)?;
-    if !a.quiet {
-        let mut text = outcome.terminal();
-        text.push_str(&super::outputs_line(&out_dir, &files));
-        print(&text)?;
-    }
-    Ok(())
+    super::deliver(&outcome, out, &out_dir, a.no_charts, a.quiet)
 }

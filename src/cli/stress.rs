@@ -2,7 +2,7 @@
 //! curve gives up when another curve is true.
 
 use super::run::{StudyArgs, read_scenario, threads};
-use super::{Failure, print, progress};
+use super::{Failure, progress};
 use crate::{api, report};
 use std::path::{Path, PathBuf};
 
@@ -26,12 +26,5 @@ pub fn run(a: &StressArgs) -> Result<(), Failure> {
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let options = api::StressOptions { cost_bps: a.study.one_cost(), threads: threads(&a.study) };
     let outcome = api::stress(&scenario, &origin, &options, &progress::Bars::new(a.study.quiet))?;
-    let files = outcome.files(!a.study.no_charts, &report::Made::now())?;
-    out.commit(&files).map_err(Failure::other)?;
-    if !a.study.quiet {
-        let mut text = outcome.terminal();
-        text.push_str(&super::outputs_line(&out_dir, &files));
-        print(&text)?;
-    }
-    Ok(())
+    super::deliver(&outcome, out, &out_dir, a.study.no_charts, a.study.quiet)
 }
