@@ -305,3 +305,31 @@ fn regret_in_bps_follows_the_target_volatility_and_rules_are_ranked_by_paired_di
         .collect();
     assert!(tied.contains(&four["truth"]["best_holding"].as_u64().unwrap()));
 }
+
+#[test]
+fn horizons_only_studies_the_horizon_rules_without_the_books() {
+    // Catches: the horizon-only study drawing other histories than the full
+    // one, writing the portfolio's outputs, or taking costs it cannot use.
+    let tmp = tempfile::tempdir().unwrap();
+    let (full, alone) = (tmp.path().join("full"), tmp.path().join("alone"));
+    let args = ["run", "weekly-hump", "--assets", "150", "--paths", "80", "--seed", "5", "--no-charts", "-q"];
+    lagfold().args(args).arg("--out").arg(&full).assert().success();
+    let mut a = lagfold();
+    a.args(["run", "weekly-hump", "--horizons-only", "--assets", "150", "--paths", "80", "--seed", "5"]);
+    let out = a.arg("--out").arg(&alone).assert().success();
+    let stdout = String::from_utf8(out.get_output().stdout.clone()).unwrap();
+    assert!(stdout.contains("the horizon rules alone") && stdout.contains("not investment advice"), "{stdout}");
+    let h: Value = serde_json::from_slice(&std::fs::read(alone.join("horizons.json")).unwrap()).unwrap();
+    let s = summary(&full);
+    for rule in ["peak", "formula", "fitted"] {
+        assert_eq!(h["study"]["rules"][rule], s["study"]["rules"][rule], "{rule}");
+    }
+    assert_eq!(h["truth"]["best_horizon"], s["truth"]["best_horizon"]);
+    for f in ["curves.csv", "choices.csv"] {
+        assert_eq!(std::fs::read(alone.join(f)).unwrap(), std::fs::read(full.join(f)).unwrap(), "{f}");
+    }
+    assert!(!alone.join("holding.csv").exists() && !alone.join("report.html").exists());
+    let refused = lagfold().args(["run", "weekly-hump", "--horizons-only", "--cost-bps", "5", "-q"]).assert().code(2);
+    let stderr = String::from_utf8(refused.get_output().stderr.clone()).unwrap();
+    assert!(stderr.contains("--horizons-only skips"), "{stderr}");
+}

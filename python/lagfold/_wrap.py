@@ -66,13 +66,14 @@ class Outcome:
 
 
 class StudyResult(Outcome):
-    """A study: ``summary`` (``summary.json``), ``curves``, ``choices``,
-    ``holding`` and ``cost_sweep`` (data frames; ``cost_sweep`` is ``None``
-    without several cost levels)."""
+    """A study: ``summary`` (``summary.json``, or ``horizons.json`` for the
+    horizon rules alone), ``curves``, ``choices``, ``holding`` and
+    ``cost_sweep`` (data frames; ``holding`` is ``None`` without the
+    portfolio layer, ``cost_sweep`` without several cost levels)."""
 
     @property
     def summary(self) -> dict:
-        return self._json("summary.json")
+        return self._json("summary.json" if "summary.json" in self.files else "horizons.json")
 
     @property
     def curves(self) -> pd.DataFrame:
@@ -83,7 +84,7 @@ class StudyResult(Outcome):
         return self._table("choices.csv")
 
     @property
-    def holding(self) -> pd.DataFrame:
+    def holding(self) -> Optional[pd.DataFrame]:
         return self._table("holding.csv")
 
     @property
@@ -189,17 +190,20 @@ def study(
     cost_bps: Sequence[float] = (),
     threads: int = 0,
     more_history: bool = True,
+    portfolio: bool = True,
     charts: bool = False,
 ) -> StudyResult:
     """Runs the study of a scenario (a dict, TOML text, a file or a preset
     name), as ``lagfold run``: the options override the scenario's keys; one
     ``cost_bps`` level replaces its cost, several add a cost table;
-    ``threads=0`` uses every core (results do not depend on it)."""
+    ``threads=0`` uses every core (results do not depend on it).
+    ``portfolio=False`` studies the horizon rules alone, without the books
+    and their reference simulation, as ``lagfold run --horizons-only``."""
     kind, text = _scenario(scenario)
     args = dict(assets=assets, history=history, horizons=horizons, paths=paths, seed=seed,
                 target_vol=target_vol, cost_bps=list(cost_bps))
-    files, out = _lagfold.study(kind, text, threads=threads, more_history=more_history, charts=charts,
-                                command=_command("study", args), **args)
+    files, out = _lagfold.study(kind, text, threads=threads, more_history=more_history, portfolio=portfolio,
+                                charts=charts, command=_command("study", {**args, "portfolio": portfolio}), **args)
     return StudyResult(files, out)
 
 

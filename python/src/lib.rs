@@ -54,10 +54,11 @@ fn run<'py, O: Outcome>(
     Ok((d, text))
 }
 
-/// Runs a study.
+/// Runs a study (of the horizon rules alone unless `portfolio`).
 #[pyfunction]
 #[pyo3(signature = (kind, text, *, assets=None, history=None, horizons=None, paths=None, seed=None,
-    target_vol=None, cost_bps=Vec::new(), threads=0, more_history=true, charts=false, command=String::new()))]
+    target_vol=None, cost_bps=Vec::new(), threads=0, more_history=true, portfolio=true, charts=false,
+    command=String::new()))]
 #[allow(clippy::too_many_arguments)]
 fn study<'py>(
     py: Python<'py>,
@@ -72,10 +73,22 @@ fn study<'py>(
     cost_bps: Vec<f64>,
     threads: usize,
     more_history: bool,
+    portfolio: bool,
     charts: bool,
     command: String,
 ) -> PyResult<(Bound<'py, PyDict>, String)> {
     let ov = Overrides { assets, history, horizons, paths, seed, target_vol, ..Default::default() };
+    if !portfolio {
+        if !cost_bps.is_empty() || target_vol.is_some() {
+            return Err(PyValueError::new_err(
+                "cost_bps and target_vol price the books, which portfolio=False skips; drop one or the other",
+            ));
+        }
+        return run(py, charts, command, || {
+            let (s, origin) = scenario(kind, text, &ov)?;
+            api::study_horizons(&s, &origin, threads, &Silent)
+        });
+    }
     run(py, charts, command, || {
         let (s, origin) = scenario(kind, text, &ov)?;
         api::study(&s, &origin, &api::StudyOptions { threads, cost_bps, more_history }, &Silent)
@@ -251,7 +264,7 @@ fn measure<'py>(
         target_vol,
         threads,
     };
-    run(py, charts, command, || api::measure(&source, &o, &Silent))
+    run(py, charts, command, || api::measure(source, &o, &Silent))
 }
 
 /// The names of the built-in presets.

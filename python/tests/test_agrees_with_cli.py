@@ -37,6 +37,19 @@ def test_study_matches_the_cli(cli, tmp_path):
     assert "Recommendation" in s.text and s.report_html.startswith("<!DOCTYPE html>")
 
 
+def test_the_horizon_rules_alone_match_the_cli_and_the_full_study(cli, tmp_path):
+    run_cli(cli, "run", "monthly-steady", *STUDY, "--horizons-only", "-q", "--out", str(tmp_path / "cli"))
+    h = lagfold.study("monthly-steady", assets=300, paths=150, seed=3, portfolio=False)
+    same_files(h, tmp_path / "cli", ["horizons.json", "curves.csv", "choices.csv"])
+    assert h.holding is None and "report.html" not in h.files
+    full = lagfold.study("monthly-steady", assets=300, paths=150, seed=3, more_history=False)
+    assert h.files["curves.csv"] == full.files["curves.csv"]
+    for rule in ("peak", "formula", "fitted"):
+        assert h.summary["study"]["rules"][rule] == full.summary["study"]["rules"][rule]
+    with pytest.raises(ValueError, match="portfolio=False"):
+        lagfold.study("monthly-steady", portfolio=False, cost_bps=[5])
+
+
 def test_a_scenario_as_dict_or_toml_text_is_the_preset(tmp_path):
     if tomllib is None:
         pytest.skip("tomllib needs Python 3.11")

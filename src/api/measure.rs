@@ -108,12 +108,14 @@ pub struct MeasureOutcome {
     pub settings: serde_json::Value,
 }
 
-/// Measures the panel of `source`.
+/// Measures the panel of `source` (columns in memory are moved into the
+/// panel, not copied).
 ///
 /// # Errors
 /// A file, column or row the reader refuses, a panel with no measurable
 /// date, an option out of range; each names the file, line or field.
-pub fn measure(source: &PanelSource, o: &MeasureOptions, progress: &dyn Progress) -> Result<MeasureOutcome, Error> {
+pub fn measure(source: PanelSource, o: &MeasureOptions, progress: &dyn Progress) -> Result<MeasureOutcome, Error> {
+    let (source_name, stem) = (source.name(), source.stem());
     check_costs(&o.cost_bps, super::study::MAX_COST_LEVELS, "`measure`")?;
     if o.horizons == Some(0) {
         return Err(Error::input("`--horizons` must be at least 1, got 0"));
@@ -135,10 +137,8 @@ pub fn measure(source: &PanelSource, o: &MeasureOptions, progress: &dyn Progress
         }
     }
     let mut read = match source {
-        PanelSource::File(p) => crate::reader::read_panel(p, &read_opts),
-        PanelSource::Columns(name, cols) => {
-            crate::reader::read_panel_columns(Path::new(name), cols.clone(), &read_opts)
-        }
+        PanelSource::File(p) => crate::reader::read_panel(&p, &read_opts),
+        PanelSource::Columns(name, cols) => crate::reader::read_panel_columns(Path::new(&name), cols, &read_opts),
     }
     .map_err(Error::input)?;
     neutralise(&mut read);
@@ -161,7 +161,7 @@ pub fn measure(source: &PanelSource, o: &MeasureOptions, progress: &dyn Progress
         bootstrap: (o.bootstrap, o.seed),
         window: o.window,
     };
-    let file = PathBuf::from(source.name());
+    let file = PathBuf::from(&source_name);
     let (mut result, fit) = own_data::measure(&read, &file, &settings).map_err(Error::Input)?;
     result.neutralised_on = neutralised_on;
     let mut warnings = Vec::new();
@@ -171,7 +171,7 @@ pub fn measure(source: &PanelSource, o: &MeasureOptions, progress: &dyn Progress
     if !o.cost_bps.is_empty() {
         result.books = Some(own_data::own_books(&read, &settings, &o.cost_bps, &mut result.warnings));
     }
-    let name: String = format!("{}-calibrated", source.stem())
+    let name: String = format!("{stem}-calibrated")
         .chars()
         .map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '-' })
         .collect();
@@ -221,7 +221,7 @@ pub fn measure(source: &PanelSource, o: &MeasureOptions, progress: &dyn Progress
         }
         Err(e) => result.warnings.push(format!("no calibrated scenario (calibrated.toml not written): {e}")),
     }
-    let settings = settings_json(source, o, &result, l);
+    let settings = settings_json(&source_name, o, &result, l);
     Ok(MeasureOutcome { result, calibrated_toml, settings })
 }
 
@@ -235,13 +235,13 @@ fn neutralise(read: &mut ReadPanel) {
 }
 
 /// The settings as the report lists them.
-fn settings_json(source: &PanelSource, o: &MeasureOptions, r: &MeasureResult, l: usize) -> serde_json::Value {
+fn settings_json(panel: &str, o: &MeasureOptions, r: &MeasureResult, l: usize) -> serde_json::Value {
     let signals = r.comparison.as_ref().map_or(vec![r.signal.clone()], |c| {
         c.signals.iter().filter(|s| s.kind == "signal").map(|s| s.name.clone()).collect()
     });
     let blend: Vec<String> = o.blend.iter().map(|w| format!("{}={}", w.signal, w.weight)).collect();
     serde_json::json!({
-        "panel": source.name(),
+        "panel": panel,
         "columns": {"date": o.read.date, "asset": o.read.asset, "forecast": signals, "return": o.read.ret},
         "blend": blend,
         "group_column": o.read.group,

@@ -7,6 +7,7 @@
 //! |---|---|---|
 //! | [`load_scenario`], [`scenario_from_toml`], [`scenario_from_json`] | a file, preset name, TOML text or JSON table | [`Scenario`] |
 //! | [`study()`] | a scenario | [`StudyOutcome`] |
+//! | [`study_horizons`] | a scenario (no portfolio layer) | [`HorizonOutcome`] |
 //! | [`plan()`] | a scenario and a grid of histories | [`PlanOutcome`] |
 //! | [`stress()`] | a scenario and its alternative curves | [`StressOutcome`] |
 //! | [`sweep()`] | the grid points of a sweep file | [`SweepOutcome`] |
@@ -30,7 +31,7 @@ pub use panel::{SimulatedPanel, simulate_panel};
 pub use plan::{PlanOptions, PlanOutcome, plan};
 pub use scenario::{load_scenario, scenario_from_json, scenario_from_toml, scenario_text};
 pub use stress::{StressOptions, StressOutcome, stress};
-pub use study::{MAX_COST_LEVELS, StudyOptions, StudyOutcome, study};
+pub use study::{HorizonOutcome, MAX_COST_LEVELS, StudyOptions, StudyOutcome, study, study_horizons};
 pub use sweep::{SweepOutcome, sweep};
 
 /// Why an operation gave no result.

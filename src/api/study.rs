@@ -5,7 +5,7 @@ use super::{Error, Files, Progress, Scenario, at_cost, charts, check_costs, fini
 use crate::portfolio::PortfolioTruth;
 use crate::report::{self, Summary};
 use crate::simulate::Setup;
-use crate::study::{self, MoreHistory, StudyResult};
+use crate::study::{self, HorizonStudy, MoreHistory, StudyResult};
 
 /// Most one-way cost levels in one study (each is a row of the cost table
 /// and a line on the cost chart).
@@ -88,10 +88,11 @@ impl super::Outcome for StudyOutcome {
         let summary = self.summary();
         finite(&summary)?;
         let (setup, result) = (&self.setup, &self.result);
+        let horizons = result.horizons();
         let mut files = vec![
             ("summary.json".to_string(), report::summary_json(&summary)),
-            ("curves.csv".into(), report::curves_csv(setup, result)),
-            ("choices.csv".into(), report::choices_csv(setup, result)),
+            ("curves.csv".into(), report::curves_csv(setup, &horizons)),
+            ("choices.csv".into(), report::choices_csv(setup, &horizons)),
             ("holding.csv".into(), report::holding_csv(&self.portfolio, result)),
         ];
         if !result.cost_sweep.is_empty() {
@@ -107,5 +108,52 @@ impl super::Outcome for StudyOutcome {
     /// The terminal summary.
     fn terminal(&self) -> String {
         report::terminal_summary(&self.story())
+    }
+}
+
+/// A study of the horizon rules alone: no portfolio layer (no reference
+/// simulation, no books), so a fraction of the work.
+#[derive(Debug, Clone)]
+pub struct HorizonOutcome {
+    /// The validated scenario, its truth and generator.
+    pub setup: Setup,
+    /// The horizon rules' record.
+    pub result: HorizonStudy,
+}
+
+/// The study of `scenario`'s horizon rules without the portfolio layer (the
+/// same histories and choices as [`study()`]'s; `origin` names it in messages).
+///
+/// # Errors
+/// A scenario whose truth cannot be computed.
+pub fn study_horizons(
+    scenario: &Scenario,
+    origin: &str,
+    threads: usize,
+    progress: &dyn Progress,
+) -> Result<HorizonOutcome, Error> {
+    let setup = Setup::new(scenario.clone()).map_err(|e| Error::Input(format!("{origin}: {e}")))?;
+    let threads = super::threads_or_all(threads);
+    let s = &setup.scenario;
+    super::note_long(progress, s.paths, s, threads);
+    let result = stage(progress, "study", s.paths, |p| study::run_horizons(&setup, threads, p));
+    Ok(HorizonOutcome { setup, result })
+}
+
+impl super::Outcome for HorizonOutcome {
+    /// `horizons.json`, `curves.csv` and `choices.csv` (no charts and no
+    /// report: those tell the portfolio's story too).
+    fn files(&self, _draw_charts: bool, _made: &report::Made) -> Result<Files, Error> {
+        let summary = report::HorizonSummary::new(&self.setup, &self.result);
+        finite(&summary)?;
+        Ok(vec![
+            ("horizons.json".to_string(), report::horizons_json(&summary)),
+            ("curves.csv".into(), report::curves_csv(&self.setup, &self.result)),
+            ("choices.csv".into(), report::choices_csv(&self.setup, &self.result)),
+        ])
+    }
+
+    fn terminal(&self) -> String {
+        report::horizons_terminal(&self.setup, &self.result)
     }
 }

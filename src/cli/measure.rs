@@ -143,6 +143,6 @@ pub fn run(a: &MeasureArgs) -> Result<(), Failure> {
     let out_dir =
         a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-measure", source.stem())));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
-    let outcome = api::measure(&source, &options, &progress::Bars::new(a.study.quiet))?;
+    let outcome = api::measure(source, &options, &progress::Bars::new(a.study.quiet))?;
     super::deliver(&outcome, out, &out_dir, a.study.no_charts, a.study.quiet)
 }

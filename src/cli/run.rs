@@ -52,6 +52,11 @@ pub struct StudyArgs {
 pub struct RunArgs {
     /// Scenario file (TOML), or the name of a built-in preset.
     pub scenario: PathBuf,
+    /// Study the horizon rules alone, without the portfolio layer (no
+    /// reference simulation, no books, no report): writes horizons.json,
+    /// curves.csv and choices.csv.
+    #[arg(long)]
+    pub horizons_only: bool,
     /// The common knobs.
     #[command(flatten)]
     pub study: StudyArgs,
@@ -132,7 +137,13 @@ pub fn run(a: &RunArgs) -> Result<(), Failure> {
     if axes.is_empty() {
         let scenario = scenario::load(&text, &origin, &stem, &a.study.overrides()).map_err(Failure::input)?;
         warn_implausible(&[&scenario], &origin);
+        if a.horizons_only {
+            return horizons_only(scenario, &a.study, &origin);
+        }
         return execute(scenario, &a.study, &origin);
+    }
+    if a.horizons_only {
+        return Err(Failure::input("--horizons-only runs one scenario, not a sweep file"));
     }
     let points = sweep::expand(&text, &origin, &stem, &a.study.overrides(), &axes).map_err(Failure::input)?;
     warn_implausible(&points.iter().map(|p| &p.scenario).collect::<Vec<_>>(), &origin);
@@ -156,6 +167,19 @@ pub fn demo(a: &StudyArgs) -> Result<(), Failure> {
     let text = presets::text(presets::DEFAULT).map_err(Failure::other)?;
     let scenario = scenario::load(text, &origin, presets::DEFAULT, &a.overrides()).map_err(Failure::input)?;
     execute(scenario, a, &origin)
+}
+
+/// `lagfold run --horizons-only`: the horizon rules alone.
+fn horizons_only(scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
+    if !a.cost_bps.is_empty() || a.target_vol.is_some() {
+        return Err(Failure::input(
+            "--cost-bps and --target-vol price the books, which --horizons-only skips; drop one or the other",
+        ));
+    }
+    let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-horizons", scenario.name)));
+    let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
+    let outcome = api::study_horizons(&scenario, origin, threads(a), &progress::Bars::new(a.quiet))?;
+    super::deliver(&outcome, out, &out_dir, true, a.quiet)
 }
 
 fn execute(scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failure> {

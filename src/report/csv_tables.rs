@@ -4,7 +4,7 @@ use crate::portfolio::PortfolioTruth;
 use crate::rule::Rule;
 use crate::simulate::Setup;
 use crate::stats::BAND_LEVELS;
-use crate::study::{CurveStats, StudyResult};
+use crate::study::{CurveStats, HorizonStudy, StudyResult};
 
 fn band_headers(prefix: &str) -> Vec<String> {
     let mut h = vec![format!("{prefix}_mean"), format!("{prefix}_mean_se")];
@@ -28,7 +28,7 @@ fn finish(w: csv::Writer<Vec<u8>>) -> Vec<u8> {
 
 /// `curves.csv`: one row per lag/horizon `n` with the true lagged IC, the three
 /// true horizon-IC forms, near-best flag, and the measured means and bands.
-pub fn curves_csv(setup: &Setup, study: &StudyResult) -> Vec<u8> {
+pub fn curves_csv(setup: &Setup, study: &HorizonStudy) -> Vec<u8> {
     let t = &setup.truth;
     let mut w = csv::Writer::from_writer(Vec::new());
     let mut header: Vec<String> =
@@ -62,9 +62,9 @@ pub fn curves_csv(setup: &Setup, study: &StudyResult) -> Vec<u8> {
 }
 
 /// `choices.csv`: per horizon, how often each rule chose it (count and share).
-pub fn choices_csv(setup: &Setup, study: &StudyResult) -> Vec<u8> {
+pub fn choices_csv(setup: &Setup, study: &HorizonStudy) -> Vec<u8> {
     let t = &setup.truth;
-    let rules = [&study.rules.horizon.peak, &study.rules.horizon.formula, &study.rules.horizon.fitted];
+    let rules = [&study.rules.peak, &study.rules.formula, &study.rules.fitted];
     let mut w = csv::Writer::from_writer(Vec::new());
     let mut header = vec!["horizon".to_string(), "is_best".into(), "near_best".into(), "true_horizon_ic".into()];
     for r in Rule::HORIZON {

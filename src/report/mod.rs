@@ -37,6 +37,6 @@ pub use plan::{plan_csv, plan_json, plan_terminal};
 pub use provenance::{Made, command_line, utc_date};
 pub use story::Study;
 pub use stress::{stress_csv, stress_json, stress_terminal};
-pub use summary::{CAUTION, Summary, summary_json};
+pub use summary::{CAUTION, HorizonSummary, Summary, horizons_json, summary_json};
 pub use sweep::{SweepPoint, sweep_csv, sweep_json, sweep_terminal};
-pub use terminal::{period_word, terminal_summary};
+pub use terminal::{horizons_terminal, period_word, terminal_summary};

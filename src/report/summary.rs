@@ -3,7 +3,8 @@
 use super::story::Study;
 use crate::portfolio::PortfolioTruth;
 use crate::scenario::Scenario;
-use crate::study::{MoreHistory, StudyResult};
+use crate::simulate::Setup;
+use crate::study::{HorizonStudy, MoreHistory, StudyResult};
 use crate::truth::Truth;
 use serde::Serialize;
 
@@ -74,16 +75,63 @@ impl<'a> Summary<'a> {
             },
             study,
             more_history: story.more,
-            truth_note: "truth.horizon_ic (the study's truth) is the expected per-date horizon IC at large N; \
-horizon_ic_pooled is sum g_k / sqrt(V_n); horizon_ic_simple is sum IC_k / sqrt(n) (Qian, Hua and Sorensen)",
+            truth_note: TRUTH_NOTE,
             caution: CAUTION,
         }
     }
 }
 
+/// Which horizon-IC form the study's truth is.
+const TRUTH_NOTE: &str = "truth.horizon_ic (the study's truth) is the expected per-date horizon IC at large N; \
+horizon_ic_pooled is sum g_k / sqrt(V_n); horizon_ic_simple is sum IC_k / sqrt(n) (Qian, Hua and Sorensen)";
+
 /// Pretty-printed JSON with a trailing newline.
 pub fn summary_json(s: &Summary) -> Vec<u8> {
-    let mut v = serde_json::to_vec_pretty(s).expect("summary serialises");
+    pretty(s)
+}
+
+fn pretty(s: &impl Serialize) -> Vec<u8> {
+    let mut v = serde_json::to_vec_pretty(s).expect("results serialise");
     v.push(b'\n');
     v
+}
+
+/// `horizons.json`: a study of the horizon rules alone (no portfolio layer),
+/// with the same keys as `summary.json` where they exist.
+#[derive(Debug, Serialize)]
+pub struct HorizonSummary<'a> {
+    /// Program name.
+    pub tool: &'static str,
+    /// Program version.
+    pub version: &'static str,
+    /// The validated scenario.
+    pub scenario: &'a Scenario,
+    /// True curves and optimum.
+    pub truth: &'a Truth,
+    /// The horizon rules' record.
+    pub study: &'a HorizonStudy,
+    /// Which horizon-IC form the study's truth is.
+    pub truth_note: &'static str,
+    /// The caution.
+    pub caution: &'static str,
+}
+
+impl<'a> HorizonSummary<'a> {
+    /// Bundles a study of the horizon rules alone.
+    pub fn new(setup: &'a Setup, study: &'a HorizonStudy) -> Self {
+        Self {
+            tool: "lagfold",
+            version: env!("CARGO_PKG_VERSION"),
+            scenario: &setup.scenario,
+            truth: &setup.truth,
+            study,
+            truth_note: TRUTH_NOTE,
+            caution: CAUTION,
+        }
+    }
+}
+
+/// Pretty-printed `horizons.json` with a trailing newline.
+pub fn horizons_json(s: &HorizonSummary) -> Vec<u8> {
+    pretty(s)
 }

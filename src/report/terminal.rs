@@ -6,8 +6,9 @@ use super::story::{GLOSSARY, Study, plain, ranges, vol_pct};
 use super::summary::CAUTION;
 use super::text::{pct, pct_se, share_ci};
 use crate::portfolio::PortfolioTruth;
+use crate::rule::PerRule;
 use crate::simulate::Setup;
-use crate::study::{RuleStats, StudyResult};
+use crate::study::{HorizonStudy, RuleStats, StudyResult};
 use std::fmt::Write;
 
 /// The period's name for a frequency: "month" for 12 a year, and so on.
@@ -72,6 +73,74 @@ fn rule_row(out: &mut String, name: &str, r: &RuleStats) {
 /// "5–7–14": the 5th, 50th and 95th percentiles of the chosen horizon (whole numbers).
 fn choice_range(q: &[f64]) -> String {
     format!("{}–{}–{}", q[0].round() as i64, q[2].round() as i64, q[4].round() as i64)
+}
+
+/// The true curves and how each horizon rule picks the horizon: the
+/// appendix of a study, and the whole of a study of the horizon rules alone.
+fn horizon_tables(out: &mut String, setup: &Setup, rules: &PerRule<RuleStats>, paths: usize, unit: &str) {
+    let (s, t) = (&setup.scenario, &setup.truth);
+    let _ = writeln!(out, "True curves (expected per-date IC at large breadth; IC zero beyond lag {})", t.truncation);
+    let _ =
+        writeln!(out, "  {:>7}  {:>10}  {:>10}  {:>10}  {:>10}", "n", "lagged IC", "horizon IC", "pooled", "Σ IC/√n");
+    for n in shown_horizons(s.horizons, t.best_horizon) {
+        let mark = mark(n == t.best_horizon, t.is_near_best(n));
+        let _ = writeln!(
+            out,
+            "  {n:>7}  {:>10.4}  {:>10.4}  {:>10.4}  {:>10.4}{mark}",
+            t.lagged_ic[n - 1],
+            t.horizon_ic[n - 1],
+            t.horizon_ic_pooled[n - 1],
+            t.horizon_ic_simple[n - 1]
+        );
+    }
+    let _ = writeln!(
+        out,
+        "  True optimal horizon: {} (horizon IC {:.4}); within {} of the peak: {}",
+        plural(t.best_horizon, unit),
+        t.h(t.best_horizon),
+        pct(t.near_best_tolerance),
+        ranges(&t.near_best)
+    );
+    if t.best_horizon_simple != t.best_horizon {
+        let _ = writeln!(out, "  (the simple Σ IC/√n form would say {})", plural(t.best_horizon_simple, unit));
+    }
+    let _ = writeln!(
+        out,
+        "\nHow each rule picks the horizon ({} simulated histories; shares with their 95% Wilson interval, \
+         regret ± one Monte Carlo standard error)",
+        paths
+    );
+    for [a, b, c, d, e, f] in [
+        ["rule", "exact hit", "within ±1", "near-best set", "regret", "chosen"],
+        ["", "", "", "", "% of best", "5–50–95%"],
+    ] {
+        let _ = writeln!(out, "  {a:<8}  {b:<14} {c:<14} {d:<14} {e:<12} {f}");
+    }
+    rule_row(out, "peak", &rules.peak);
+    rule_row(out, "formula", &rules.formula);
+    rule_row(out, "fitted", &rules.fitted);
+    let p = &rules.peak;
+    let _ = writeln!(
+        out,
+        "  Winner's curse: the measured peak overstates the true horizon IC at the chosen horizon by {:.4} on average ({} of the best).",
+        p.winners_curse_mean,
+        pct(p.winners_curse_mean / t.h(t.best_horizon))
+    );
+}
+
+/// The terminal summary of a study of the horizon rules alone (no portfolio layer).
+pub fn horizons_terminal(setup: &Setup, study: &HorizonStudy) -> String {
+    let unit = period_word(setup.scenario.periods_per_year);
+    let mut out = format!(
+        "lagfold {}: scenario {}, the horizon rules alone ({} assets × {} dates, no portfolio layer)\n\n",
+        env!("CARGO_PKG_VERSION"),
+        setup.scenario.name,
+        setup.scenario.assets,
+        setup.scenario.history
+    );
+    horizon_tables(&mut out, setup, &study.rules, study.paths, unit);
+    let _ = writeln!(out, "\n{CAUTION}");
+    out
 }
 
 /// The holding-period section: both books by holding length, the net
@@ -166,7 +235,7 @@ fn holding_section(out: &mut String, setup: &Setup, p: &PortfolioTruth, study: &
 /// why the two optima differ and a glossary, then the tables as an appendix.
 pub fn terminal_summary(story: &Study) -> String {
     let (setup, portfolio, study) = (story.setup, story.portfolio, story.study);
-    let (s, t) = (&setup.scenario, &setup.truth);
+    let s = &setup.scenario;
     let unit = period_word(s.periods_per_year);
     let mut out = String::new();
     let _ = writeln!(
@@ -204,53 +273,7 @@ pub fn terminal_summary(story: &Study) -> String {
         let _ = writeln!(out, "  - {term}: {meaning}.");
     }
     let _ = writeln!(out, "\n── Appendix: the tables ──\n");
-    let _ = writeln!(out, "True curves (expected per-date IC at large breadth; IC zero beyond lag {})", t.truncation);
-    let _ =
-        writeln!(out, "  {:>7}  {:>10}  {:>10}  {:>10}  {:>10}", "n", "lagged IC", "horizon IC", "pooled", "Σ IC/√n");
-    for n in shown_horizons(s.horizons, t.best_horizon) {
-        let mark = mark(n == t.best_horizon, t.is_near_best(n));
-        let _ = writeln!(
-            out,
-            "  {n:>7}  {:>10.4}  {:>10.4}  {:>10.4}  {:>10.4}{mark}",
-            t.lagged_ic[n - 1],
-            t.horizon_ic[n - 1],
-            t.horizon_ic_pooled[n - 1],
-            t.horizon_ic_simple[n - 1]
-        );
-    }
-    let _ = writeln!(
-        out,
-        "  True optimal horizon: {} (horizon IC {:.4}); within {} of the peak: {}",
-        plural(t.best_horizon, unit),
-        t.h(t.best_horizon),
-        pct(t.near_best_tolerance),
-        ranges(&t.near_best)
-    );
-    if t.best_horizon_simple != t.best_horizon {
-        let _ = writeln!(out, "  (the simple Σ IC/√n form would say {})", plural(t.best_horizon_simple, unit));
-    }
-    let _ = writeln!(
-        out,
-        "\nHow each rule picks the horizon ({} simulated histories; shares with their 95% Wilson interval, \
-         regret ± one Monte Carlo standard error)",
-        study.paths
-    );
-    for [a, b, c, d, e, f] in [
-        ["rule", "exact hit", "within ±1", "near-best set", "regret", "chosen"],
-        ["", "", "", "", "% of best", "5–50–95%"],
-    ] {
-        let _ = writeln!(out, "  {a:<8}  {b:<14} {c:<14} {d:<14} {e:<12} {f}");
-    }
-    rule_row(&mut out, "peak", &study.rules.horizon.peak);
-    rule_row(&mut out, "formula", &study.rules.horizon.formula);
-    rule_row(&mut out, "fitted", &study.rules.horizon.fitted);
-    let p = &study.rules.horizon.peak;
-    let _ = writeln!(
-        out,
-        "  Winner's curse: the measured peak overstates the true horizon IC at the chosen horizon by {:.4} on average ({} of the best).",
-        p.winners_curse_mean,
-        pct(p.winners_curse_mean / t.h(t.best_horizon))
-    );
+    horizon_tables(&mut out, setup, &study.rules.horizon, study.paths, unit);
     holding_section(&mut out, setup, portfolio, study, unit);
     let _ = writeln!(out, "\n{CAUTION}");
     out
