@@ -12,8 +12,8 @@ fuzz_target!(|data: &[u8]| {
     let opts = ReadOptions { max_bytes: 64 << 20, ..ReadOptions::default() };
     let Ok(read) = read_panel_bytes(std::path::Path::new("fuzz.csv"), data.to_vec(), &opts) else { return };
     let p = &read.panel;
-    if p.dates >= MIN_DATES && p.assets >= 3 {
-        let mut m = Measurement::new((p.dates / 4).clamp(1, 6), true);
+    if p.dates() >= MIN_DATES && p.assets() >= 3 {
+        let mut m = Measurement::new((p.dates() / 4).clamp(1, 6), true);
         m.update(p);
     }
 });

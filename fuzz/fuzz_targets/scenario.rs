@@ -5,7 +5,7 @@
 #![no_main]
 
 use lagfold::scenario::{self, Overrides, sweep};
-use lagfold::study::Setup;
+use lagfold::simulate::Setup;
 use libfuzzer_sys::fuzz_target;
 
 fuzz_target!(|data: &[u8]| {
@@ -18,8 +18,8 @@ fuzz_target!(|data: &[u8]| {
         let _ = sweep::expand(text, "fuzz", "fuzz", &ov, &axes);
     }
     if let Ok(s) = scenario::load(text, "fuzz", "fuzz", &ov)
-        && s.truncation <= 400
-        && s.horizons <= 60
+        && s.truncation() <= 400
+        && s.horizons() <= 60
     {
         let _ = Setup::new(s);
     }
