@@ -174,7 +174,7 @@ def _scenario(scenario: ScenarioLike) -> tuple[str, str]:
 
 
 def _command(name: str, args: Mapping[str, Any]) -> str:
-    given = ", ".join(f"{k}={v!r}" for k, v in args.items() if v not in (None, (), [], 0, False))
+    given = ", ".join(f"{k}={v!r}" for k, v in args.items() if v is not None and not (isinstance(v, list) and not v))
     return f"lagfold.{name}({given}) in Python"
 
 
@@ -363,7 +363,7 @@ def measure(
     missing values as NaN/None/NA. The keyword arguments name the columns
     (``forecast`` one name or several; default ``forecast``)."""
     forecasts = [forecast] if isinstance(forecast, str) else list(forecast or [])
-    weights = [f"{k}={v!r}" for k, v in (blend or {}).items()]
+    weights = [f"{k}={float(v)!r}" for k, v in (blend or {}).items()]
     args = dict(date=date, asset=asset, forecasts=forecasts, ret=ret, every_signal=every_signal, blend=weights,
                 group=group, neutralize=list(neutralize), backward_returns=backward_returns,
                 na=None if na is None else list(na), horizons=horizons, min_assets=min_assets,

@@ -139,7 +139,7 @@ def test_named_columns_and_several_signals(cli, messy_panel, tmp_path):
     args = ["--forecast-column", "alpha,slow", "--return-column", "fwd", "--blend", "alpha=0.5,slow=0.5",
             "--no-study", "--bootstrap", "100"]
     run_cli(cli, "measure", str(path), *args, "--no-charts", "-q", "--out", str(tmp_path / "cli"))
-    m = lagfold.measure(frame, forecast=["alpha", "slow"], ret="fwd", blend={"alpha": 0.5, "slow": 0.5},
+    m = lagfold.measure(frame, forecast=["alpha", "slow"], ret="fwd", blend={"alpha": np.float64(0.5), "slow": 0.5},
                         study=False, bootstrap=100, name=str(path))
     same_files(m, tmp_path / "cli", ["measure.json", "signals.csv", "per_date.csv"])
     assert list(m.signals["signal"].unique()) == ["alpha", "slow", "blend"]
