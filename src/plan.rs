@@ -202,7 +202,7 @@ pub fn run(
 ) -> PlanResult {
     let s = &setup.scenario;
     let mut per_point: Vec<Outcomes> =
-        histories.iter().map(|_| Outcomes::with_capacity(s.paths, s.horizons, false)).collect();
+        histories.iter().map(|_| Outcomes::with_capacity(s.paths, s.horizons, false, true)).collect();
     run_in_order(
         threads,
         s.paths,

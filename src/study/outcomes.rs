@@ -31,15 +31,15 @@ pub struct Outcomes {
 }
 
 impl Outcomes {
-    /// Room for `paths` outcomes with `l` lags.
-    pub fn with_capacity(paths: usize, l: usize, rank: bool) -> Self {
+    /// Room for `paths` outcomes with `l` lags (and their books when `books`).
+    pub fn with_capacity(paths: usize, l: usize, rank: bool, books: bool) -> Self {
         Self {
             len: l,
             lagged: Vec::with_capacity(paths * l),
             horizon: Vec::with_capacity(paths * l),
             rank_lagged: Vec::with_capacity(if rank { paths * l } else { 0 }),
             choices: Vec::with_capacity(paths),
-            books: Vec::with_capacity(paths * l),
+            books: Vec::with_capacity(if books { paths * l } else { 0 }),
         }
     }
 

@@ -59,7 +59,7 @@ impl Worker {
 /// `books`; the outcomes come back in path order.
 pub fn simulate_all(setup: &Setup, books: bool, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> Outcomes {
     let s = &setup.scenario;
-    let mut out = Outcomes::with_capacity(s.paths, s.horizons, s.rank_ic);
+    let mut out = Outcomes::with_capacity(s.paths, s.horizons, s.rank_ic, books);
     let path = |w: &mut Worker, p| if books { w.run_path(setup, p) } else { w.measure_path(setup, p) };
     run_in_order(threads, s.paths, || Worker::new(s), path, |o| out.push(o), progress);
     out
