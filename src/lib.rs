@@ -56,3 +56,4 @@ pub mod calendar;
 pub mod error;
 pub mod rule;
 pub mod stats;
+pub mod tally;

@@ -9,9 +9,10 @@ use crate::measure::rules;
 use crate::portfolio::PortfolioTruth;
 use crate::rule::Rule;
 use crate::simulate::{Setup, run_in_order};
-use crate::study::{Outcomes, PathOutcome, RuleStats, RulesOut, Worker, aggregate};
+use crate::study::{PathOutcome, RuleStats, RulesOut, StudyTally, Worker, aggregate};
 use serde::Serialize;
 use std::fmt;
+use std::ops::Range;
 
 /// A figure of a rule's record that a target can name.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
@@ -200,21 +201,46 @@ pub fn run(
     threads: usize,
     progress: &(dyn Fn(usize) + Sync),
 ) -> PlanResult {
+    let tallies = tally(setup, portfolio.cost_bps, histories, 0..setup.scenario.paths, threads, progress);
+    finish(setup, portfolio, histories, goal, &tallies)
+}
+
+/// Paths `paths` of the plan, folded into one tally per history of
+/// `histories`, the net-IR rule at one-way cost `cost_bps`.
+pub fn tally(
+    setup: &Setup,
+    cost_bps: f64,
+    histories: &[usize],
+    paths: Range<usize>,
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> Vec<StudyTally> {
     let s = &setup.scenario;
-    let mut per_point: Vec<Outcomes> =
-        histories.iter().map(|_| Outcomes::with_capacity(s.paths, s.horizons, false, true)).collect();
+    let mut per_point: Vec<StudyTally> = histories.iter().map(|_| StudyTally::new(setup, &[cost_bps])).collect();
     run_in_order(
         threads,
-        s.paths,
+        paths,
         || Worker::new(s),
         |w, p| prefix_outcomes(w, setup, p, histories),
-        |outs: Vec<PathOutcome>| per_point.iter_mut().zip(outs).for_each(|(acc, o)| acc.push(o)),
+        |outs: Vec<PathOutcome>| per_point.iter_mut().zip(outs).for_each(|(acc, o)| acc.push(setup, &o)),
         progress,
     );
+    per_point
+}
+
+/// The plan's record from its tallies (one per history of `histories`).
+pub fn finish(
+    setup: &Setup,
+    portfolio: &PortfolioTruth,
+    histories: &[usize],
+    goal: Goal,
+    tallies: &[StudyTally],
+) -> PlanResult {
+    let s = &setup.scenario;
     let grid: Vec<PlanPoint> = histories
         .iter()
-        .zip(&per_point)
-        .map(|(&history, o)| PlanPoint { history, assets: s.assets, rules: aggregate(setup, portfolio, o).rules })
+        .zip(tallies)
+        .map(|(&history, t)| PlanPoint { history, assets: s.assets, rules: aggregate(setup, portfolio, t).rules })
         .collect();
     let answer = answer(&grid, goal);
     PlanResult { paths: s.paths, seed: s.seed, grid, target: goal.to_string(), answer }

@@ -2,7 +2,7 @@
 //! every stage: the measurement applies the horizon rules, the study adds the
 //! portfolio's net-IR rule, and every report lists them in this order.
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 /// The rules compared in the study.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
@@ -48,7 +48,7 @@ impl Rule {
 
 /// One value per horizon rule, keyed by [`Rule`]; written as
 /// `{"peak": …, "formula": …, "fitted": …}`.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize)]
 pub struct PerRule<T> {
     /// The peak rule's value.
     pub peak: T,
@@ -87,6 +87,21 @@ impl<T> std::ops::Index<Rule> for PerRule<T> {
             Rule::Peak => &self.peak,
             Rule::Formula => &self.formula,
             Rule::Fitted => &self.fitted,
+            Rule::NetIr => panic!("the net-IR rule has no horizon-rule value"),
+        }
+    }
+}
+
+impl<T> std::ops::IndexMut<Rule> for PerRule<T> {
+    /// The rule's value.
+    ///
+    /// # Panics
+    /// For [`Rule::NetIr`], which is no horizon rule.
+    fn index_mut(&mut self, r: Rule) -> &mut T {
+        match r {
+            Rule::Peak => &mut self.peak,
+            Rule::Formula => &mut self.formula,
+            Rule::Fitted => &mut self.fitted,
             Rule::NetIr => panic!("the net-IR rule has no horizon-rule value"),
         }
     }

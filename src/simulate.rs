@@ -86,13 +86,14 @@ impl PathWorker {
 /// Paths simulated between two progress reports.
 const CHUNK: usize = 128;
 
-/// Runs `run(worker, p)` for paths `0..paths` on `threads` threads and hands
-/// the results to `sink` in path order. Paths go in chunks of [`CHUNK`], each
+/// Runs `run(worker, p)` for every path `p` of `paths` on `threads` threads
+/// and hands the results to `sink` in path order; `progress` hears how many
+/// are done. Paths go in chunks of [`CHUNK`], each
 /// cut into `2 × threads` contiguous runs, one per long-lived worker, so the
 /// order of results never depends on scheduling.
 pub fn run_in_order<W: Send, T: Send>(
     threads: usize,
-    paths: usize,
+    paths: std::ops::Range<usize>,
     make_worker: impl Fn() -> W,
     run: impl Fn(&mut W, u64) -> T + Sync,
     mut sink: impl FnMut(T),
@@ -101,9 +102,9 @@ pub fn run_in_order<W: Send, T: Send>(
     let pool = rayon::ThreadPoolBuilder::new().num_threads(threads.max(1)).build().expect("thread pool");
     let parts = 2 * threads.max(1);
     let mut workers: Vec<W> = (0..parts).map(|_| make_worker()).collect();
-    let mut start = 0;
-    while start < paths {
-        let end = (start + CHUNK).min(paths);
+    let mut start = paths.start;
+    while start < paths.end {
+        let end = (start + CHUNK).min(paths.end);
         let pieces: Vec<Vec<T>> = pool.install(|| {
             workers
                 .par_iter_mut()
@@ -116,6 +117,6 @@ pub fn run_in_order<W: Send, T: Send>(
         });
         pieces.into_iter().flatten().for_each(&mut sink);
         start = end;
-        progress(start);
+        progress(start - paths.start);
     }
 }

@@ -147,7 +147,7 @@ impl PortfolioTruth {
         let mut per_path: Vec<PathBooks> = Vec::with_capacity(spec.reference_paths);
         run_in_order(
             threads,
-            spec.reference_paths,
+            0..spec.reference_paths,
             || (PathWorker::new(l, false), BookBuilder::default()),
             |(w, books), p| {
                 w.simulate_and_measure(setup, REFERENCE_SEED, p);

@@ -7,18 +7,20 @@ pub mod coverage;
 mod outcomes;
 mod ranking;
 mod records;
+mod tally;
 mod worker;
 
 use crate::simulate::Setup;
-pub use outcomes::{Outcomes, PathOutcome};
+pub use outcomes::PathOutcome;
 pub use ranking::{PairedDifference, RuleRanking};
 pub use records::{RuleStats, RulesOut, Target, net_ir_rule, rule_stats};
+pub use tally::{ChoiceTally, CurveTally, NetTally, StudyTally};
 pub use worker::{Worker, simulate_all};
 
 use crate::measure::fit::Family;
 use crate::portfolio::PortfolioTruth;
-use crate::rule::{PerRule, Rule};
-use crate::stats::{BAND_LEVELS, Moments, quantile_sorted};
+use crate::rule::PerRule;
+use crate::stats::BAND_LEVELS;
 use crate::stats::{argmax1, near_set};
 use serde::Serialize;
 use std::collections::BTreeMap;
@@ -91,7 +93,14 @@ pub struct HorizonStudy {
 /// same paths and choices as [`run`] (each path's stream depends only on the
 /// seed and its index), at the cost of simulating and measuring them.
 pub fn run_horizons(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> HorizonStudy {
-    horizons(setup, &simulate_all(setup, false, threads, progress))
+    let paths = 0..setup.scenario.paths;
+    horizons(setup, &simulate_all(setup, None, paths, threads, progress))
+}
+
+/// The one-way costs (basis points) whose net-IR rule a study follows: the
+/// portfolio's, then each of `sweep`.
+pub fn study_costs(portfolio: &PortfolioTruth, sweep: &[f64]) -> Vec<f64> {
+    std::iter::once(portfolio.cost_bps).chain(sweep.iter().copied()).collect()
 }
 
 /// Runs every path on `threads` threads, reporting paths done to `progress`.
@@ -104,9 +113,16 @@ pub fn run(
     threads: usize,
     progress: &(dyn Fn(usize) + Sync),
 ) -> StudyResult {
-    let outcomes = simulate_all(setup, true, threads, progress);
-    let mut result = aggregate(setup, portfolio, &outcomes);
-    result.cost_sweep = sweep.iter().map(|&bps| sweep_row(setup, portfolio, bps, &outcomes)).collect();
+    let costs = study_costs(portfolio, sweep);
+    let tally = simulate_all(setup, Some(&costs), 0..setup.scenario.paths, threads, progress);
+    finish(setup, portfolio, &tally)
+}
+
+/// The study's results from its tally: the net-IR rule at the portfolio's
+/// cost, then one sweep row per further cost the tally followed.
+pub fn finish(setup: &Setup, portfolio: &PortfolioTruth, tally: &StudyTally) -> StudyResult {
+    let mut result = aggregate(setup, portfolio, tally);
+    result.cost_sweep = tally.net[1..].iter().map(|net| sweep_row(setup, portfolio, net)).collect();
     result
 }
 
@@ -135,6 +151,14 @@ pub fn more_history(
     threads: usize,
     progress: &(dyn Fn(usize) + Sync),
 ) -> Option<MoreHistory> {
+    let longer = more_history_setup(setup)?;
+    let costs = study_costs(portfolio, &[]);
+    let tally = simulate_all(&longer, Some(&costs), 0..longer.scenario.paths, threads, progress);
+    Some(more_history_of(&longer, portfolio, &tally))
+}
+
+/// The set-up of the study at twice the history, or `None` past the limits.
+pub fn more_history_setup(setup: &Setup) -> Option<Setup> {
     let s = &setup.scenario;
     let twice = crate::scenario::Overrides {
         history: Some(2 * s.history),
@@ -142,9 +166,13 @@ pub fn more_history(
         ..Default::default()
     };
     // A history past the scenario's size limits is refused by the validation.
-    let longer = Setup::new(s.revised(&twice).ok()?).ok()?;
-    let result = run(&longer, portfolio, &[], threads, progress);
-    Some(MoreHistory { history: longer.scenario.history, paths: result.paths, rules: result.rules })
+    Setup::new(s.revised(&twice).ok()?).ok()
+}
+
+/// The record at twice the history from its tally (`longer` from [`more_history_setup`]).
+pub fn more_history_of(longer: &Setup, portfolio: &PortfolioTruth, tally: &StudyTally) -> MoreHistory {
+    let result = aggregate(longer, portfolio, tally);
+    MoreHistory { history: longer.scenario.history, paths: result.paths, rules: result.rules }
 }
 
 /// The true and the measured net optimum at one cost.
@@ -168,79 +196,46 @@ pub struct SweepRow {
     pub measured_net_ir: CurveStats,
 }
 
-fn sweep_row(setup: &Setup, portfolio: &PortfolioTruth, bps: f64, outcomes: &Outcomes) -> SweepRow {
-    let (c, ppy) = (bps * 1e-4, setup.scenario.periods_per_year);
+fn sweep_row(setup: &Setup, portfolio: &PortfolioTruth, net: &NetTally) -> SweepRow {
+    let (c, ppy) = (net.cost_bps * 1e-4, setup.scenario.periods_per_year);
     let (ir, se) = crate::portfolio::truth::net_ir_at(&portfolio.linear_sums, &portfolio.linear_paths, c, ppy);
     let best = argmax1(&ir);
     SweepRow {
-        cost_bps: bps,
+        cost_bps: net.cost_bps,
         true_best_holding: best,
         true_net_ir: ir[best - 1],
         true_net_ir_se: se[best - 1],
         true_near_best: near_set(&ir, setup.scenario.near_best_tolerance),
-        measured: net_ir_rule(setup, &ir, &portfolio.linear_paths, c, outcomes),
-        measured_net_ir: net_ir_bands(outcomes, c, ppy, ir.len()),
+        measured: net_ir_rule(setup, &ir, &portfolio.linear_paths, net),
+        measured_net_ir: curve_stats(&net.curve),
         true_net_ir_curve: ir,
     }
 }
 
-/// Bands of each history's measured annualised net IR per holding length at one-way cost `c`.
-fn net_ir_bands(outcomes: &Outcomes, c: f64, ppy: f64, len: usize) -> CurveStats {
-    curve_stats_owned(
-        (0..outcomes.paths()).map(|p| outcomes.books(p).iter().map(|b| b.ir(c, ppy)).collect()).collect(),
-        len,
-    )
-}
-
-fn curve_stats_owned(rows: Vec<Vec<f64>>, len: usize) -> CurveStats {
-    curve_stats(|p| rows[p].as_slice(), rows.len(), len)
-}
-
-fn curve_stats<'a>(rows: impl Fn(usize) -> &'a [f64], paths: usize, len: usize) -> CurveStats {
-    let mut moments = vec![Moments::default(); len];
-    let mut columns = vec![Vec::with_capacity(paths); len];
-    for p in 0..paths {
-        for (k, &v) in rows(p).iter().enumerate() {
-            moments[k].push(v);
-            columns[k].push(v);
-        }
-    }
-    columns.iter_mut().for_each(|c| c.sort_by(f64::total_cmp));
+/// Mean, standard error and quantile bands of a curve across paths.
+fn curve_stats(t: &CurveTally) -> CurveStats {
     CurveStats {
-        mean: moments.iter().map(Moments::mean).collect(),
-        mean_se: moments.iter().map(Moments::se).collect(),
-        quantiles: BAND_LEVELS.iter().map(|&q| columns.iter().map(|c| quantile_sorted(c, q)).collect()).collect(),
+        mean: t.sums.iter().map(|s| s.mean()).collect(),
+        mean_se: t.sums.iter().map(|s| s.se()).collect(),
+        quantiles: BAND_LEVELS.iter().map(|&q| t.bands.iter().map(|b| b.quantile(q)).collect()).collect(),
     }
 }
 
-/// Folds path outcomes (in path order) into the horizon rules' record.
-fn horizons(setup: &Setup, outcomes: &Outcomes) -> HorizonStudy {
-    let l = setup.scenario.horizons;
+/// The horizon rules' record from a study's tally.
+fn horizons(setup: &Setup, tally: &StudyTally) -> HorizonStudy {
     let t = &setup.truth;
     let target = Target { truth: &t.horizon_ic, best: t.best_horizon, near: &t.near_best };
-    let stats = |r: Rule| {
-        rule_stats(
-            r.describe(),
-            &target,
-            outcomes.paths(),
-            |p| outcomes.choices(p).horizon[r],
-            |p, n| outcomes.horizon(p)[n - 1],
-        )
-    };
-    let mut fitted_families: BTreeMap<String, u64> = Family::ALL.iter().map(|f| (f.name().to_string(), 0)).collect();
-    for p in 0..outcomes.paths() {
-        *fitted_families.entry(outcomes.choices(p).family.name().to_string()).or_default() += 1;
-    }
+    let fitted_families = Family::ALL.iter().zip(&tally.families).map(|(f, &n)| (f.name().to_string(), n)).collect();
     HorizonStudy {
-        paths: outcomes.paths(),
+        paths: tally.paths as usize,
         seed: setup.scenario.seed,
         se_method: crate::measure::hac::METHOD.into(),
-        ranking: ranking::rank(&target, outcomes),
-        rules: PerRule::from_fn(stats),
+        ranking: ranking::rank(&tally.pairs),
+        rules: PerRule::from_fn(|r| rule_stats(r.describe(), &target, &tally.rules[r])),
         fitted_families,
-        lagged_ic: curve_stats(|p| outcomes.lagged(p), outcomes.paths(), l),
-        horizon_ic: curve_stats(|p| outcomes.horizon(p), outcomes.paths(), l),
-        rank_lagged_ic: setup.scenario.rank_ic.then(|| curve_stats(|p| outcomes.rank_lagged(p), outcomes.paths(), l)),
+        lagged_ic: curve_stats(&tally.lagged),
+        horizon_ic: curve_stats(&tally.horizon),
+        rank_lagged_ic: tally.rank_lagged.as_ref().map(curve_stats),
     }
 }
 
@@ -261,11 +256,11 @@ impl StudyResult {
     }
 }
 
-/// Folds path outcomes (in path order, with their books) into the study's results.
-pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes) -> StudyResult {
-    let h = horizons(setup, outcomes);
-    let c = portfolio.cost_bps * 1e-4;
-    let ppy = setup.scenario.periods_per_year;
+/// The study's results from its tally (whose first net-IR record is at the
+/// portfolio's cost), without the cost sweep.
+pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, tally: &StudyTally) -> StudyResult {
+    let h = horizons(setup, tally);
+    let net = &tally.net[0];
     StudyResult {
         paths: h.paths,
         seed: h.seed,
@@ -273,10 +268,10 @@ pub fn aggregate(setup: &Setup, portfolio: &PortfolioTruth, outcomes: &Outcomes)
         ranking: h.ranking,
         rules: RulesOut {
             horizon: h.rules,
-            net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear_paths, c, outcomes),
+            net_ir: net_ir_rule(setup, &portfolio.linear.net_ir, &portfolio.linear_paths, net),
         },
         cost_bps: portfolio.cost_bps,
-        net_ir: net_ir_bands(outcomes, c, ppy, setup.scenario.horizons),
+        net_ir: curve_stats(&net.curve),
         cost_sweep: Vec::new(),
         fitted_families: h.fitted_families,
         lagged_ic: h.lagged_ic,

@@ -3,9 +3,10 @@
 //! so their regrets are compared path by path (a paired test), not by the
 //! overlap of two separate error bars.
 
-use super::{Outcomes, Target};
+use super::tally::rule_pairs;
 use crate::rule::Rule;
-use crate::stats::{Moments, Z95};
+use crate::stats::Z95;
+use crate::tally::ExactSums;
 use serde::Serialize;
 
 /// The paired difference of two rules' relative regret, `a − b`, over the same histories.
@@ -31,25 +32,25 @@ pub struct RuleRanking {
     pub differences: Vec<PairedDifference>,
 }
 
-/// Compares the horizon rules on the study's histories.
-pub fn rank(target: &Target, outcomes: &Outcomes) -> RuleRanking {
-    let v_best = target.truth[target.best - 1];
-    let regret = |rule: Rule, p: usize| (v_best - target.truth[outcomes.choices(p).horizon[rule] - 1]) / v_best;
+/// Compares the horizon rules on the study's histories, from the paired
+/// differences the tally holds (in [`rule_pairs`] order).
+pub fn rank(pairs: &[ExactSums]) -> RuleRanking {
+    let all = rule_pairs();
     let diff = |a: Rule, b: Rule| {
-        let mut m = Moments::default();
-        (0..outcomes.paths()).for_each(|p| m.push(regret(a, p) - regret(b, p)));
-        m
+        let i = all.iter().position(|&p| p == (a, b) || p == (b, a)).expect("a pair of horizon rules");
+        let sign = if all[i] == (a, b) { 1.0 } else { -1.0 };
+        (sign * pairs[i].mean(), pairs[i].se())
     };
-    let mut differences = Vec::new();
-    for (i, &a) in Rule::HORIZON.iter().enumerate() {
-        for &b in &Rule::HORIZON[i + 1..] {
-            let m = diff(a, b);
-            differences.push(PairedDifference { a: a.name().into(), b: b.name().into(), mean: m.mean(), se: m.se() });
-        }
-    }
+    let differences = all
+        .iter()
+        .map(|&(a, b)| {
+            let (mean, se) = diff(a, b);
+            PairedDifference { a: a.name().into(), b: b.name().into(), mean, se }
+        })
+        .collect();
     let beats = |a: Rule, b: Rule| {
-        let m = diff(a, b);
-        m.se().is_some_and(|se| m.mean() < -Z95 * se)
+        let (mean, se) = diff(a, b);
+        se.is_some_and(|se| mean < -Z95 * se)
     };
     let best = Rule::HORIZON
         .iter()

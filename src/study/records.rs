@@ -1,12 +1,13 @@
 //! Judging a rule: hit rates, regret, winner's curse and the distribution of
 //! its choices against a target, with Monte Carlo standard errors.
 
-use super::Outcomes;
+use super::tally::{ChoiceTally, NetTally};
 use crate::portfolio::BookSums;
 use crate::rule::{PerRule, Rule};
 use crate::simulate::Setup;
-use crate::stats::{BAND_LEVELS, Moments, Proportion, quantile_discrete, quantile_sorted};
+use crate::stats::{BAND_LEVELS, Moments, Proportion};
 use crate::stats::{argmax1, near_set};
+use crate::tally::ExactSums;
 use serde::Serialize;
 
 /// Study results for one rule.
@@ -108,39 +109,28 @@ pub struct Target<'a> {
     pub near: &'a [usize],
 }
 
-/// Hit rates, regret and the distribution of `choice(p)` over all paths;
-/// `measured(p, n)` is path `p`'s own estimate of the value of choice `n`
-/// (for the winner's curse).
-pub fn rule_stats(
-    description: &str,
-    target: &Target,
-    paths: usize,
-    choice: impl Fn(usize) -> usize,
-    measured: impl Fn(usize, usize) -> f64,
-) -> RuleStats {
-    let (best, l, p) = (target.best, target.truth.len(), paths as u64);
-    let v_best = target.truth[best - 1];
-    let mut counts = vec![0u64; l];
-    let (mut hit, mut near, mut in_set) = (0u64, 0u64, 0u64);
-    let (mut regret, mut rel, mut curse) = (Moments::default(), Moments::default(), Moments::default());
-    let mut rels = Vec::with_capacity(paths);
-    let mut chosen = Vec::with_capacity(paths);
-    for path in 0..paths {
-        let n = choice(path);
-        counts[n - 1] += 1;
-        hit += u64::from(n == best);
-        near += u64::from(n.abs_diff(best) <= 1);
-        in_set += u64::from(target.near.contains(&n));
-        let r = v_best - target.truth[n - 1];
-        regret.push(r);
-        rel.push(r / v_best);
-        rels.push(r / v_best);
-        chosen.push(n as f64);
-        curse.push(measured(path, n) - target.truth[n - 1]);
-    }
-    rels.sort_by(f64::total_cmp);
-    chosen.sort_by(f64::total_cmp);
-    let (h, nh, nb) = (Proportion::new(hit, p), Proportion::new(near, p), Proportion::new(in_set, p));
+/// Hit rates, regret, winner's curse and the distribution of the choices
+/// counted in `tally`, judged against `target`. Everything but the winner's
+/// curse is a function of how often each choice was made; the curse of a path
+/// is its own estimate at its choice minus the truth there, pooled from the
+/// per-choice sums (Chan, Golub and LeVeque, 1979).
+pub fn rule_stats(description: &str, target: &Target, tally: &ChoiceTally) -> RuleStats {
+    let (best, truth) = (target.best, target.truth);
+    let counts = &tally.counts;
+    let p = tally.paths();
+    let v_best = truth[best - 1];
+    let share = |keep: &dyn Fn(usize) -> bool| {
+        Proportion::new((1..=counts.len()).filter(|&n| keep(n)).map(|n| counts[n - 1]).sum(), p)
+    };
+    let h = share(&|n| n == best);
+    let nh = share(&|n| n.abs_diff(best) <= 1);
+    let nb = share(&|n| target.near.contains(&n));
+    let regret: Vec<f64> = truth.iter().map(|&v| v_best - v).collect();
+    let rel: Vec<f64> = regret.iter().map(|r| r / v_best).collect();
+    let (regret_mean, regret_mean_se) = weighted_mean_se(&regret, counts);
+    let (regret_rel_mean, regret_rel_mean_se) = weighted_mean_se(&rel, counts);
+    let (winners_curse_mean, winners_curse_mean_se) = curse(tally, truth);
+    let chosen: Vec<f64> = (1..=counts.len()).map(|n| n as f64).collect();
     RuleStats {
         description: description.to_string(),
         hit_rate: h.rate,
@@ -152,20 +142,95 @@ pub fn rule_stats(
         near_best_rate: nb.rate,
         near_best_rate_se: nb.se,
         near_best_rate_ci: nb.ci,
-        regret_mean: regret.mean(),
-        regret_mean_se: regret.se(),
-        regret_rel_mean: rel.mean(),
-        regret_rel_mean_se: rel.se(),
-        regret_rel_quantiles: BAND_LEVELS.iter().map(|&q| quantile_sorted(&rels, q)).collect(),
-        winners_curse_mean: curse.mean(),
-        winners_curse_mean_se: curse.se(),
-        choice_counts: counts,
-        choice_quantiles: BAND_LEVELS.iter().map(|&q| quantile_discrete(&chosen, q)).collect(),
+        regret_mean,
+        regret_mean_se,
+        regret_rel_mean,
+        regret_rel_mean_se,
+        regret_rel_quantiles: BAND_LEVELS.iter().map(|&q| weighted_quantile(&rel, counts, q)).collect(),
+        winners_curse_mean,
+        winners_curse_mean_se,
+        choice_counts: counts.clone(),
+        choice_quantiles: BAND_LEVELS.iter().map(|&q| weighted_quantile_discrete(&chosen, counts, q)).collect(),
         regret_bps_year_mean: None,
         regret_bps_year_mean_se: None,
         regret_ref_se: None,
         regret_bps_year_ref_se: None,
     }
+}
+
+/// Mean and Monte Carlo standard error of a sample holding `counts[i]`
+/// copies of `values[i]` (two passes: the mean, then squared deviations).
+pub fn weighted_mean_se(values: &[f64], counts: &[u64]) -> (f64, Option<f64>) {
+    let n: u64 = counts.iter().sum();
+    if n == 0 {
+        return (f64::NAN, None);
+    }
+    let mean = values.iter().zip(counts).map(|(v, &c)| v * c as f64).sum::<f64>() / n as f64;
+    let ss: f64 = values.iter().zip(counts).map(|(v, &c)| c as f64 * (v - mean).powi(2)).sum();
+    (mean, (n > 1).then(|| (ss / (n - 1) as f64).sqrt() / (n as f64).sqrt()))
+}
+
+/// The sample's value of rank `k` (0-based) when it holds `counts[i]` copies
+/// of `values[i]`, visited in ascending order of value.
+fn weighted_order_statistic(order: &[usize], values: &[f64], counts: &[u64], mut k: u64) -> f64 {
+    for &i in order {
+        if k < counts[i] {
+            return values[i];
+        }
+        k -= counts[i];
+    }
+    f64::NAN
+}
+
+fn ascending(values: &[f64]) -> Vec<usize> {
+    let mut order: Vec<usize> = (0..values.len()).collect();
+    order.sort_by(|&a, &b| values[a].total_cmp(&values[b]));
+    order
+}
+
+/// [`quantile_sorted`](crate::stats::quantile_sorted) of the sample holding
+/// `counts[i]` copies of `values[i]`.
+pub fn weighted_quantile(values: &[f64], counts: &[u64], q: f64) -> f64 {
+    let n: u64 = counts.iter().sum();
+    if n == 0 {
+        return f64::NAN;
+    }
+    let order = ascending(values);
+    let h = (n - 1) as f64 * q;
+    let (lo, frac) = (h.floor() as u64, h - h.floor());
+    let a = weighted_order_statistic(&order, values, counts, lo);
+    let b = weighted_order_statistic(&order, values, counts, (lo + 1).min(n - 1));
+    a + frac * (b - a)
+}
+
+/// [`quantile_discrete`](crate::stats::quantile_discrete) of the sample
+/// holding `counts[i]` copies of `values[i]`.
+pub fn weighted_quantile_discrete(values: &[f64], counts: &[u64], q: f64) -> f64 {
+    let n: u64 = counts.iter().sum();
+    if n == 0 {
+        return f64::NAN;
+    }
+    let rank = ((q * n as f64).ceil() as u64).clamp(1, n);
+    weighted_order_statistic(&ascending(values), values, counts, rank - 1)
+}
+
+/// Mean winner's curse and its standard error: the per-choice sums of the
+/// path's estimate, less the truth at the choice, pooled.
+fn curse(tally: &ChoiceTally, truth: &[f64]) -> (f64, Option<f64>) {
+    let n = tally.paths();
+    if n == 0 {
+        return (f64::NAN, None);
+    }
+    let mean = tally.measured.iter().zip(truth).map(|(s, t)| s.total() - s.count() as f64 * t).sum::<f64>() / n as f64;
+    let within: f64 = tally.measured.iter().filter(|s| s.count() > 0).map(ExactSums::centred_squares).sum();
+    let between: f64 = tally
+        .measured
+        .iter()
+        .zip(truth)
+        .filter(|(s, _)| s.count() > 0)
+        .map(|(s, t)| s.count() as f64 * (s.mean() - t - mean).powi(2))
+        .sum();
+    (mean, (n > 1).then(|| ((within + between) / (n - 1) as f64).sqrt() / (n as f64).sqrt()))
 }
 
 /// The net-IR rule at one-way cost `c`: each path's best holding length by
@@ -176,29 +241,19 @@ pub fn rule_stats(
 ///
 /// `reference` holds the reference histories' sums, whose spread gives the
 /// truth's own error in the regret.
-pub fn net_ir_rule(
-    setup: &Setup,
-    truth_ir: &[f64],
-    reference: &[Vec<BookSums>],
-    c: f64,
-    outcomes: &Outcomes,
-) -> RuleStats {
-    let ppy = setup.scenario.periods_per_year;
+pub fn net_ir_rule(setup: &Setup, truth_ir: &[f64], reference: &[Vec<BookSums>], net: &NetTally) -> RuleStats {
+    let (c, ppy) = (net.cost_bps * 1e-4, setup.scenario.periods_per_year);
     let near = near_set(truth_ir, setup.scenario.near_best_tolerance);
     let target = Target { truth: truth_ir, best: argmax1(truth_ir), near: &near };
-    let ir = |p: usize, n: usize| outcomes.books(p)[n - 1].ir(c, ppy);
-    let l = truth_ir.len();
-    let chosen: Vec<usize> =
-        (0..outcomes.paths()).map(|p| argmax1(&(1..=l).map(|n| ir(p, n)).collect::<Vec<_>>())).collect();
-    let mut stats = rule_stats(Rule::NetIr.describe(), &target, outcomes.paths(), |p| chosen[p], ir);
+    let mut stats = rule_stats(Rule::NetIr.describe(), &target, &net.choice);
     let annual_vol_bps = setup.scenario.portfolio.target_vol * 1e4;
-    let mut bps = Moments::default();
-    for &n in &chosen {
-        bps.push((truth_ir[target.best - 1] - truth_ir[n - 1]) * annual_vol_bps);
-    }
-    stats.regret_bps_year_mean = Some(bps.mean());
-    stats.regret_bps_year_mean_se = bps.se();
-    let share: Vec<f64> = stats.choice_counts.iter().map(|&k| k as f64 / chosen.len().max(1) as f64).collect();
+    let regret_bps: Vec<f64> = truth_ir.iter().map(|&v| (truth_ir[target.best - 1] - v) * annual_vol_bps).collect();
+    let (mean, se) = weighted_mean_se(&regret_bps, &net.choice.counts);
+    stats.regret_bps_year_mean = Some(mean);
+    stats.regret_bps_year_mean_se = se;
+    let paths = net.choice.paths().max(1) as f64;
+    let share: Vec<f64> = stats.choice_counts.iter().map(|&k| k as f64 / paths).collect();
+    let l = truth_ir.len();
     let mut by_reference = Moments::default();
     for path in reference {
         let best = path[target.best - 1].ir(c, ppy);

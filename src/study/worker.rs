@@ -1,7 +1,7 @@
 //! The work of one study path: a simulated, measured history
 //! ([`PathWorker`]), the rules' choices and the linear books.
 
-use super::{Outcomes, PathOutcome};
+use super::{PathOutcome, StudyTally};
 use crate::measure::rules;
 use crate::portfolio::{BookBuilder, BookSums};
 use crate::simulate::{PathWorker, Setup, run_in_order};
@@ -55,12 +55,20 @@ impl Worker {
     }
 }
 
-/// Simulates every path, with the linear books of every holding length when
-/// `books`; the outcomes come back in path order.
-pub fn simulate_all(setup: &Setup, books: bool, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> Outcomes {
+/// Simulates paths `paths` and folds them, in path order, into a tally;
+/// with `costs` (one-way, basis points) each path's linear books of every
+/// holding length are built and the net-IR rule followed at each cost.
+pub fn simulate_all(
+    setup: &Setup,
+    costs: Option<&[f64]>,
+    paths: std::ops::Range<usize>,
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> StudyTally {
     let s = &setup.scenario;
-    let mut out = Outcomes::with_capacity(s.paths, s.horizons, s.rank_ic, books);
+    let mut tally = StudyTally::new(setup, costs.unwrap_or_default());
+    let books = costs.is_some();
     let path = |w: &mut Worker, p| if books { w.run_path(setup, p) } else { w.measure_path(setup, p) };
-    run_in_order(threads, s.paths, || Worker::new(s), path, |o| out.push(o), progress);
-    out
+    run_in_order(threads, paths, || Worker::new(s), path, |o| tally.push(setup, &o), progress);
+    tally
 }
