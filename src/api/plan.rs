@@ -6,6 +6,7 @@ use crate::portfolio::PortfolioTruth;
 use crate::report;
 use crate::scenario::{HISTORY_NOTE, MAX_ASSET_DATES, MIN_HISTORY_WORDS, min_history};
 use crate::simulate::Setup;
+use crate::study::StudyTally;
 
 /// Most history lengths in one plan.
 pub const MAX_HISTORIES: usize = 40;
@@ -67,6 +68,17 @@ fn grid(given: &[usize], history: usize, horizons: usize) -> Result<Vec<usize>, 
 /// # Errors
 /// A grid or cost out of range, or a scenario whose truth cannot be computed.
 pub fn plan(scenario: &Scenario, origin: &str, o: &PlanOptions, progress: &dyn Progress) -> Result<PlanOutcome, Error> {
+    let (setup, histories) = prepare(scenario, origin, o)?;
+    let threads = super::threads_or_all(o.threads);
+    let s = &setup.scenario;
+    super::note_long(progress, s.paths + s.portfolio.reference_paths, s, threads);
+    let tallies = tallies(&setup, &histories, 0..s.paths, threads, progress);
+    Ok(from_tallies(setup, &histories, o.goal, &tallies, threads, progress))
+}
+
+/// The scenario at the plan's cost and longest history, set up, and the
+/// grid of histories.
+pub(super) fn prepare(scenario: &Scenario, origin: &str, o: &PlanOptions) -> Result<(Setup, Vec<usize>), Error> {
     check_costs(o.cost_bps.as_slice(), 1, "`plan` (one cost for the net-IR rule)")?;
     let scenario = at_cost(scenario, o.cost_bps, origin)?;
     let histories = grid(&o.histories, scenario.history, scenario.horizons)?;
@@ -81,13 +93,35 @@ pub fn plan(scenario: &Scenario, origin: &str, o: &PlanOptions, progress: &dyn P
         .revised(&Overrides { history: Some(longest), ..Default::default() })
         .map_err(|e| Error::Input(format!("{origin}: {e}")))?;
     let setup = Setup::new(longer).map_err(|e| Error::Input(format!("{origin}: {e}")))?;
-    let threads = super::threads_or_all(o.threads);
+    Ok((setup, histories))
+}
+
+/// Paths `paths` of the plan, one tally per history.
+pub(super) fn tallies(
+    setup: &Setup,
+    histories: &[usize],
+    paths: std::ops::Range<usize>,
+    threads: usize,
+    progress: &dyn Progress,
+) -> Vec<StudyTally> {
+    let cost = setup.scenario.portfolio.cost_bps;
+    stage(progress, "plan", paths.len(), |p| plan::tally(setup, cost, histories, paths, threads, p))
+}
+
+/// The plan's outcome from its tallies (one per history).
+pub(super) fn from_tallies(
+    setup: Setup,
+    histories: &[usize],
+    goal: Goal,
+    tallies: &[StudyTally],
+    threads: usize,
+    progress: &dyn Progress,
+) -> PlanOutcome {
     let s = &setup.scenario;
-    super::note_long(progress, s.paths + s.portfolio.reference_paths, s, threads);
     let portfolio =
         stage(progress, "reference", s.portfolio.reference_paths, |p| PortfolioTruth::compute(&setup, threads, p));
-    let result = stage(progress, "plan", s.paths, |p| plan::run(&setup, &portfolio, &histories, o.goal, threads, p));
-    Ok(PlanOutcome { scenario: setup.scenario, goal: o.goal, result })
+    let result = plan::finish(&setup, &portfolio, histories, goal, tallies);
+    PlanOutcome { scenario: setup.scenario, goal, result }
 }
 
 impl super::Outcome for PlanOutcome {

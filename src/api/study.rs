@@ -46,24 +46,64 @@ pub fn study(
     o: &StudyOptions,
     progress: &dyn Progress,
 ) -> Result<StudyOutcome, Error> {
+    let (setup, sweep) = prepare(scenario, origin, o)?;
+    let threads = super::threads_or_all(o.threads);
+    let s = &setup.scenario;
+    super::note_long(progress, s.paths + s.portfolio.reference_paths, s, threads);
+    let tallies = tallies(&setup, &sweep, o, |n| 0..n, progress);
+    Ok(from_tallies(setup, &tallies, threads, progress))
+}
+
+/// The scenario at the study's cost, set up, and the levels of its cost
+/// sweep (empty unless several costs are given).
+pub(super) fn prepare(scenario: &Scenario, origin: &str, o: &StudyOptions) -> Result<(Setup, Vec<f64>), Error> {
     check_costs(&o.cost_bps, MAX_COST_LEVELS, "`run`")?;
     let one = if let [c] = o.cost_bps[..] { Some(c) } else { None };
     let setup = Setup::new(at_cost(scenario, one, origin)?).map_err(|e| Error::Input(format!("{origin}: {e}")))?;
     let sweep = if o.cost_bps.len() > 1 { o.cost_bps.clone() } else { Vec::new() };
+    Ok((setup, sweep))
+}
+
+/// Paths `block` of the study (and of the study at twice the history when
+/// asked), folded into tallies: the main study's, then the longer one's.
+pub(super) fn tallies(
+    setup: &Setup,
+    sweep: &[f64],
+    o: &StudyOptions,
+    block: impl Fn(usize) -> std::ops::Range<usize>,
+    progress: &dyn Progress,
+) -> Vec<study::StudyTally> {
     let threads = super::threads_or_all(o.threads);
+    let costs: Vec<f64> = std::iter::once(setup.scenario.portfolio.cost_bps).chain(sweep.iter().copied()).collect();
+    let paths = block(setup.scenario.paths);
+    let mut out =
+        vec![stage(progress, "study", paths.len(), |p| study::simulate_all(setup, Some(&costs), paths, threads, p))];
+    if let Some(longer) = o.more_history.then(|| study::more_history_setup(setup)).flatten() {
+        let paths = block(longer.scenario.paths);
+        let cost = [costs[0]];
+        out.push(stage(progress, "twice the history", paths.len(), |p| {
+            study::simulate_all(&longer, Some(&cost), paths, threads, p)
+        }));
+    }
+    out
+}
+
+/// The study's outcome from its tallies (as [`tallies`] lists them).
+pub(super) fn from_tallies(
+    setup: Setup,
+    tallies: &[study::StudyTally],
+    threads: usize,
+    progress: &dyn Progress,
+) -> StudyOutcome {
     let s = &setup.scenario;
-    super::note_long(progress, s.paths + s.portfolio.reference_paths, s, threads);
     let portfolio =
         stage(progress, "reference", s.portfolio.reference_paths, |p| PortfolioTruth::compute(&setup, threads, p));
-    let result = stage(progress, "study", s.paths, |p| study::run(&setup, &portfolio, &sweep, threads, p));
-    let more = if o.more_history {
-        stage(progress, "twice the history", s.paths.min(study::MORE_HISTORY_PATHS), |p| {
-            study::more_history(&setup, &portfolio, threads, p)
-        })
-    } else {
-        None
-    };
-    Ok(StudyOutcome { setup, portfolio, result, more })
+    let result = study::finish(&setup, &portfolio, &tallies[0]);
+    let more = tallies.get(1).and_then(|t| {
+        let longer = study::more_history_setup(&setup)?;
+        Some(study::more_history_of(&longer, &portfolio, t))
+    });
+    StudyOutcome { setup, portfolio, result, more }
 }
 
 impl StudyOutcome {

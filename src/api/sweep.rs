@@ -47,10 +47,7 @@ pub fn sweep(
     let mut done = 0;
     let mut rows = Vec::with_capacity(points.len());
     for p in &points {
-        let label = p.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
-        let at = |e: &dyn std::fmt::Display| Error::Input(format!("{origin} (grid point {label}): {e}"));
-        let s = p.scenario.revised(&Overrides { cost_bps, ..Default::default() }).map_err(|e| at(&e))?;
-        let setup = Setup::new(s).map_err(|e| at(&e))?;
+        let setup = point_setup(p, origin, cost_bps)?;
         let portfolio = PortfolioTruth::compute(&setup, threads, &|_| {});
         let result = study::run(&setup, &portfolio, &[], threads, &|d| progress.advance(done + d));
         done += setup.scenario.paths;
@@ -58,6 +55,15 @@ pub fn sweep(
     }
     progress.end();
     Ok(SweepOutcome { points, rows })
+}
+
+/// A grid point's scenario at the sweep's cost (one `cost_bps` level
+/// replaces the point's own), set up; errors name the point.
+pub(super) fn point_setup(p: &Point, origin: &str, cost_bps: Option<f64>) -> Result<Setup, Error> {
+    let label = p.at.iter().map(|(k, v)| format!("{k} = {v}")).collect::<Vec<_>>().join(", ");
+    let at = |e: &dyn std::fmt::Display| Error::Input(format!("{origin} (grid point {label}): {e}"));
+    let s = p.scenario.revised(&Overrides { cost_bps, ..Default::default() }).map_err(|e| at(&e))?;
+    Setup::new(s).map_err(|e| at(&e))
 }
 
 impl super::Outcome for SweepOutcome {

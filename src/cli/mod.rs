@@ -2,6 +2,7 @@
 //! run, write, report. Exit codes: 0 ok, 1 failure, 2 bad input.
 
 mod measure;
+mod merge;
 mod panel;
 mod plan;
 mod presets_cmd;
@@ -40,6 +41,8 @@ pub enum Command {
     /// Measure your own panel's lagged and horizon ICs and its best horizon.
     #[command(allow_negative_numbers = true)]
     Measure(measure::MeasureArgs),
+    /// Add shards' partial results (`--shard K/N`) into the single run's outputs.
+    Merge(merge::MergeArgs),
     /// Write one simulated history as a long CSV (date, asset, forecast, return).
     #[command(allow_negative_numbers = true)]
     Panel(panel::PanelArgs),
@@ -182,6 +185,7 @@ pub fn main() -> i32 {
         Command::Plan(a) => plan::run(&a),
         Command::Stress(a) => stress::run(&a),
         Command::Measure(a) => measure::run(&a),
+        Command::Merge(a) => merge::run(&a),
         Command::Panel(a) => panel::run(&a),
         Command::Presets(a) => presets_cmd::run(&a),
     };

@@ -4,7 +4,7 @@
 use super::run::{StudyArgs, read_scenario, threads};
 use super::{Failure, progress};
 use crate::{api, report};
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 /// Options of `plan`.
 #[derive(Debug, clap::Args)]
@@ -28,8 +28,7 @@ pub struct PlanArgs {
 pub fn run(a: &PlanArgs) -> Result<(), Failure> {
     let (scenario, origin) = read_scenario(&a.scenario, &a.study.overrides())?;
     a.study.costs(1, "`plan` (one cost for the net-IR rule)")?;
-    let out_dir =
-        a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-plan", scenario.name)));
+    let out_dir = a.study.out_dir(&format!("{}-plan", scenario.name));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let options = api::PlanOptions {
         histories: a.histories.clone(),
@@ -37,6 +36,11 @@ pub fn run(a: &PlanArgs) -> Result<(), Failure> {
         cost_bps: a.study.one_cost(),
         threads: threads(&a.study),
     };
-    let outcome = api::plan(&scenario, &origin, &options, &progress::Bars::new(a.study.quiet))?;
+    let bars = progress::Bars::new(a.study.quiet);
+    if let Some(shard) = a.study.shard {
+        let part = api::plan_shard(&scenario, &origin, &options, shard, &bars)?;
+        return super::deliver(&part, out, &out_dir, true, a.study.quiet);
+    }
+    let outcome = api::plan(&scenario, &origin, &options, &bars)?;
     super::deliver(&outcome, out, &out_dir, a.study.no_charts, a.study.quiet)
 }

@@ -45,6 +45,11 @@ pub struct StudyArgs {
     /// Skip the charts (the report then has no pictures).
     #[arg(long)]
     pub no_charts: bool,
+    /// Run only shard K of N (0 ≤ K < N), a contiguous block of the paths,
+    /// and write its partial result (part.json); `lagfold merge` adds the
+    /// shards' folders into the single run's outputs, byte for byte.
+    #[arg(long, value_name = "K/N", value_parser = api::Shard::parse)]
+    pub shard: Option<api::Shard>,
 }
 
 /// Options of `run`.
@@ -92,6 +97,18 @@ impl StudyArgs {
             target_vol: self.target_vol,
             ..Default::default()
         }
+    }
+
+    /// The output folder: `--out`, or `lagfold-out/<default>` (with the
+    /// shard's number when `--shard` is given).
+    pub fn out_dir(&self, default: &str) -> PathBuf {
+        self.out.clone().unwrap_or_else(|| {
+            let name = match self.shard {
+                Some(s) => format!("{default}-shard-{}-of-{}", s.index, s.count),
+                None => default.to_string(),
+            };
+            Path::new("lagfold-out").join(name)
+        })
     }
 
     /// The one cost level, if exactly one is given.
@@ -154,10 +171,14 @@ pub fn run(a: &RunArgs) -> Result<(), Failure> {
 /// paths, one long table at the end.
 fn run_sweep(points: Vec<sweep::Point>, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
     a.costs(1, "a sweep (put a list of cost_bps under [portfolio] to sweep costs)")?;
-    let name = &points[0].scenario.name;
-    let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{name}-sweep")));
+    let out_dir = a.out_dir(&format!("{}-sweep", points[0].scenario.name));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
-    let outcome = api::sweep(points, origin, a.one_cost(), threads(a), &progress::Bars::new(a.quiet))?;
+    let bars = progress::Bars::new(a.quiet);
+    if let Some(shard) = a.shard {
+        let part = api::sweep_shard(&points, origin, a.one_cost(), threads(a), shard, &bars)?;
+        return super::deliver(&part, out, &out_dir, true, a.quiet);
+    }
+    let outcome = api::sweep(points, origin, a.one_cost(), threads(a), &bars)?;
     super::deliver(&outcome, out, &out_dir, a.no_charts, a.quiet)
 }
 
@@ -176,7 +197,10 @@ fn horizons_only(scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), 
             "--cost-bps and --target-vol price the books, which --horizons-only skips; drop one or the other",
         ));
     }
-    let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-horizons", scenario.name)));
+    if a.shard.is_some() {
+        return Err(Failure::input("--shard splits a whole run; drop --horizons-only, or run it in one piece"));
+    }
+    let out_dir = a.out_dir(&format!("{}-horizons", scenario.name));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let outcome = api::study_horizons(&scenario, origin, threads(a), &progress::Bars::new(a.quiet))?;
     super::deliver(&outcome, out, &out_dir, true, a.quiet)
@@ -184,9 +208,14 @@ fn horizons_only(scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), 
 
 fn execute(scenario: Scenario, a: &StudyArgs, origin: &str) -> Result<(), Failure> {
     a.costs(api::MAX_COST_LEVELS, "`run`")?;
-    let out_dir = a.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(&scenario.name));
+    let out_dir = a.out_dir(&scenario.name);
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let options = api::StudyOptions { threads: threads(a), cost_bps: a.cost_bps.clone(), more_history: true };
-    let outcome = api::study(&scenario, origin, &options, &progress::Bars::new(a.quiet))?;
+    let bars = progress::Bars::new(a.quiet);
+    if let Some(shard) = a.shard {
+        let part = api::study_shard(&scenario, origin, &options, shard, &bars)?;
+        return super::deliver(&part, out, &out_dir, true, a.quiet);
+    }
+    let outcome = api::study(&scenario, origin, &options, &bars)?;
     super::deliver(&outcome, out, &out_dir, a.no_charts, a.quiet)
 }

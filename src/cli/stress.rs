@@ -4,7 +4,7 @@
 use super::run::{StudyArgs, read_scenario, threads};
 use super::{Failure, progress};
 use crate::{api, report};
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 /// Options of `stress`.
 #[derive(Debug, clap::Args)]
@@ -21,8 +21,12 @@ pub struct StressArgs {
 pub fn run(a: &StressArgs) -> Result<(), Failure> {
     let (scenario, origin) = read_scenario(&a.scenario, &a.study.overrides())?;
     a.study.costs(1, "`stress` (one cost for every curve)")?;
-    let out_dir =
-        a.study.out.clone().unwrap_or_else(|| Path::new("lagfold-out").join(format!("{}-stress", scenario.name)));
+    if a.study.shard.is_some() {
+        return Err(Failure::input(
+            "`stress` is not split into shards: its work is one reference simulation per curve; run it in one piece",
+        ));
+    }
+    let out_dir = a.study.out_dir(&format!("{}-stress", scenario.name));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let options = api::StressOptions { cost_bps: a.study.one_cost(), threads: threads(&a.study) };
     let outcome = api::stress(&scenario, &origin, &options, &progress::Bars::new(a.study.quiet))?;

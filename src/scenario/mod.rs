@@ -12,7 +12,7 @@ pub use raw::{DECAY_FAMILIES, RawAlternative, RawDecay, RawPortfolio, RawScenari
 
 use crate::decay::{DecayCurve, out_of_range};
 use crate::error::{InputError, ScenarioError};
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 /// Largest `assets × history` (a history takes 16 bytes per asset-date per worker).
 pub const MAX_ASSET_DATES: usize = 50_000_000;
@@ -152,6 +152,16 @@ pub fn check_cost_bps(key: &str, v: f64) -> Result<f64, ScenarioError> {
     } else {
         Err(out_of_range(key, v, "in [0, 10000) basis points"))
     }
+}
+
+/// A validated scenario's raw form and name: what a shard's partial result
+/// stores so that a merge rebuilds the very same scenario.
+#[derive(Debug, Clone, Serialize, Deserialize)]
+pub struct ScenarioRecord {
+    /// The scenario's name.
+    pub name: String,
+    /// Its raw form, every override applied.
+    pub raw: RawScenario,
 }
 
 /// Command-line overrides of the common knobs, applied before validation.
@@ -519,6 +529,20 @@ impl Scenario {
             Some(d) => s.with_decay(d.clone()),
             None => s,
         })
+    }
+
+    /// What rebuilds this scenario exactly ([`Scenario::from_record`]), or
+    /// `None` for one whose true curve was replaced after validation.
+    pub fn record(&self) -> Option<ScenarioRecord> {
+        self.replaced_decay.is_none().then(|| ScenarioRecord { name: self.name.clone(), raw: self.raw.clone() })
+    }
+
+    /// The scenario a [`ScenarioRecord`] holds.
+    ///
+    /// # Errors
+    /// A record that no longer validates (written by another version).
+    pub fn from_record(r: &ScenarioRecord) -> Result<Self, ScenarioError> {
+        Scenario::from_raw(&r.raw, &r.name)
     }
 
     /// The same scenario with another true decay curve (a validated curve;

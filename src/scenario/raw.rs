@@ -8,10 +8,10 @@
 use super::spelling::nearest;
 use crate::decay::{DecayShape, out_of_range};
 use crate::error::ScenarioError;
-use serde::Deserialize;
+use serde::{Deserialize, Serialize};
 
 /// A scenario file (TOML). Every field but `decay` has a default.
-#[derive(Debug, Clone, Deserialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawScenario {
     /// Scenario name, used for the output folder (default: the file name).
@@ -72,7 +72,7 @@ pub struct RawScenario {
 }
 
 /// `[stress]`: alternative true curves (`[[stress.alternatives]]`).
-#[derive(Debug, Clone, Default, Deserialize)]
+#[derive(Debug, Clone, Default, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawStress {
     /// Replace the default alternatives (faster, slower, hump, reversal) instead of adding to them.
@@ -84,7 +84,7 @@ pub struct RawStress {
 }
 
 /// One alternative true curve.
-#[derive(Debug, Clone, Deserialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawAlternative {
     /// Its name in tables.
@@ -94,7 +94,7 @@ pub struct RawAlternative {
 }
 
 /// Holding-period portfolios (`[portfolio]`).
-#[derive(Debug, Clone, Deserialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawPortfolio {
     /// One-way cost in basis points of traded notional.
@@ -123,7 +123,7 @@ impl Default for RawPortfolio {
 }
 
 /// Idiosyncratic noise (`family = "normal"` or `"student_t"` with `dof`).
-#[derive(Debug, Clone, Deserialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawTails {
     /// `normal` or `student_t`.
@@ -142,7 +142,7 @@ impl Default for RawTails {
 const TAIL_FAMILIES: [(&str, &[&str]); 2] = [("normal", &[]), ("student_t", &["dof"])];
 
 /// A decay curve as written: its family and any parameter of any family.
-#[derive(Debug, Clone, Default, Deserialize)]
+#[derive(Debug, Clone, Default, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawDecay {
     /// One of [`DECAY_FAMILIES`].

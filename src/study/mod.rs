@@ -143,20 +143,6 @@ pub struct MoreHistory {
     pub rules: RulesOut,
 }
 
-/// The study at twice the history, or `None` when such histories would pass
-/// the scenario's size limits.
-pub fn more_history(
-    setup: &Setup,
-    portfolio: &PortfolioTruth,
-    threads: usize,
-    progress: &(dyn Fn(usize) + Sync),
-) -> Option<MoreHistory> {
-    let longer = more_history_setup(setup)?;
-    let costs = study_costs(portfolio, &[]);
-    let tally = simulate_all(&longer, Some(&costs), 0..longer.scenario.paths, threads, progress);
-    Some(more_history_of(&longer, portfolio, &tally))
-}
-
 /// The set-up of the study at twice the history, or `None` past the limits.
 pub fn more_history_setup(setup: &Setup) -> Option<Setup> {
     let s = &setup.scenario;

@@ -1,0 +1,174 @@
+//! Shards' partial results added up into the single run's outputs.
+
+use super::shard::{Job, PART_FORMAT, Part, goal_of};
+use super::{Error, Files, PlanOptions, PlanOutcome, Progress, StudyOptions, StudyOutcome, SweepOutcome};
+use crate::portfolio::PortfolioTruth;
+use crate::report;
+use crate::scenario::sweep::Point;
+use crate::scenario::{Scenario, ScenarioRecord};
+use crate::study::{self, StudyTally};
+
+/// What a merge gives: the outcome the single run would have given.
+#[derive(Debug)]
+pub enum Merged {
+    /// A study.
+    Study(Box<StudyOutcome>),
+    /// A sweep.
+    Sweep(SweepOutcome),
+    /// A plan.
+    Plan(Box<PlanOutcome>),
+}
+
+impl super::Outcome for Merged {
+    fn files(&self, draw_charts: bool, made: &report::Made) -> Result<Files, Error> {
+        match self {
+            Merged::Study(o) => o.files(draw_charts, made),
+            Merged::Sweep(o) => o.files(draw_charts, made),
+            Merged::Plan(o) => o.files(draw_charts, made),
+        }
+    }
+
+    fn terminal(&self) -> String {
+        match self {
+            Merged::Study(o) => o.terminal(),
+            Merged::Sweep(o) => o.terminal(),
+            Merged::Plan(o) => o.terminal(),
+        }
+    }
+}
+
+/// Reads one part; `name` (its file) is named in errors.
+fn read(name: &str, bytes: &[u8]) -> Result<Part, Error> {
+    #[derive(serde::Deserialize)]
+    struct Head {
+        format: Option<u32>,
+        version: Option<String>,
+    }
+    let not_part = |e: &dyn std::fmt::Display| {
+        Error::Input(format!("{name}: not a shard's partial result written by `--shard K/N` ({e})"))
+    };
+    let head: Head = serde_json::from_slice(bytes).map_err(|e| not_part(&e))?;
+    let ours = env!("CARGO_PKG_VERSION");
+    if head.version.as_deref() != Some(ours) || head.format != Some(PART_FORMAT) {
+        return Err(Error::Input(format!(
+            "{name}: written by lagfold {} (part format {}), this is lagfold {ours} (format {PART_FORMAT}); run every \
+             shard with one version",
+            head.version.as_deref().unwrap_or("unknown"),
+            head.format.map_or("unknown".into(), |f| f.to_string())
+        )));
+    }
+    serde_json::from_slice(bytes).map_err(|e| not_part(&e))
+}
+
+/// A short description of a job, to say how two parts differ.
+fn describe(job: &Job) -> String {
+    let one = |s: &ScenarioRecord| format!("scenario `{}`, seed {}, {} paths", s.name, s.raw.seed, s.raw.paths);
+    match job {
+        Job::Run { scenario, .. } | Job::Plan { scenario, .. } => format!("{} of {}", job.command(), one(scenario)),
+        Job::Sweep { points, .. } => {
+            format!("sweep of {} points, {}", points.len(), points.first().map_or(String::new(), |(_, s)| one(s)))
+        }
+    }
+}
+
+/// Checks that `parts` (with their file names) are every shard of one run,
+/// each once, and adds their tallies.
+fn combine(parts: &[(String, Part)]) -> Result<(Job, Vec<StudyTally>), Error> {
+    let (first_name, first) = parts.first().ok_or_else(|| Error::input("merge: no parts given"))?;
+    let job_text = |p: &Part| serde_json::to_string(&p.job).unwrap_or_default();
+    let first_job = job_text(first);
+    let count = first.shard.count;
+    let mut seen: Vec<Option<&str>> = vec![None; count];
+    for (name, p) in parts {
+        if job_text(p) != first_job {
+            return Err(Error::Input(format!(
+                "{name} is a shard of another run than {first_name}: {} against {} (scenario, seed, paths and \
+                 options must all match)",
+                describe(&p.job),
+                describe(&first.job)
+            )));
+        }
+        if p.shard.count != count {
+            return Err(Error::Input(format!(
+                "{name} is shard {} but {first_name} is shard {}: every part must come from one split",
+                p.shard, first.shard
+            )));
+        }
+        if p.tallies.len() != first.tallies.len() {
+            return Err(Error::Input(format!(
+                "{name}: {} tallies, {first_name} has {}",
+                p.tallies.len(),
+                first.tallies.len()
+            )));
+        }
+        match seen[p.shard.index] {
+            Some(other) => {
+                return Err(Error::Input(format!(
+                    "shard {} is given twice: {other} and {name}; give each shard once",
+                    p.shard
+                )));
+            }
+            None => seen[p.shard.index] = Some(name),
+        }
+    }
+    let missing: Vec<String> =
+        seen.iter().enumerate().filter(|(_, s)| s.is_none()).map(|(k, _)| format!("{k}/{count}")).collect();
+    if !missing.is_empty() {
+        let list = if missing.len() > 8 {
+            format!("{} and {} more", missing[..8].join(", "), missing.len() - 8)
+        } else {
+            missing.join(", ")
+        };
+        return Err(Error::Input(format!("shards missing: {list}; run them and merge every part")));
+    }
+    let mut tallies = first.tallies.clone();
+    for (_, p) in &parts[1..] {
+        tallies.iter_mut().zip(&p.tallies).for_each(|(a, b)| a.merge(b));
+    }
+    Ok((first.job.clone(), tallies))
+}
+
+fn scenario(r: &ScenarioRecord, origin: &str) -> Result<Scenario, Error> {
+    Scenario::from_record(r).map_err(|e| Error::Input(format!("{origin}: {e}")))
+}
+
+/// Adds shards' partial results (`(file name, bytes)` each) into the single
+/// run's outcome: the run's reference simulation on `threads` threads, then
+/// its results from the summed tallies.
+///
+/// # Errors
+/// A file that is not a part; parts of different runs, versions or splits;
+/// a shard missing or given twice (each named).
+pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progress) -> Result<Merged, Error> {
+    let parts = parts.iter().map(|(n, b)| Ok((n.clone(), read(n, b)?))).collect::<Result<Vec<_>, Error>>()?;
+    let (job, tallies) = combine(&parts)?;
+    let threads = super::threads_or_all(threads);
+    Ok(match job {
+        Job::Run { origin, scenario: r, cost_bps, more_history } => {
+            let o = StudyOptions { threads, cost_bps, more_history };
+            let (setup, _) = super::study::prepare(&scenario(&r, &origin)?, &origin, &o)?;
+            Merged::Study(Box::new(super::study::from_tallies(setup, &tallies, threads, progress)))
+        }
+        Job::Sweep { origin, points, cost_bps } => {
+            let points = points
+                .iter()
+                .map(|(at, r)| Ok(Point { at: at.clone(), scenario: scenario(r, &origin)? }))
+                .collect::<Result<Vec<_>, Error>>()?;
+            progress.begin("reference", points.len());
+            let mut rows = Vec::with_capacity(points.len());
+            for (i, (p, tally)) in points.iter().zip(&tallies).enumerate() {
+                let setup = super::sweep::point_setup(p, &origin, cost_bps)?;
+                let portfolio = PortfolioTruth::compute(&setup, threads, &|_| {});
+                rows.push(report::SweepPoint::new(p, &setup, &portfolio, study::finish(&setup, &portfolio, tally)));
+                progress.advance(i + 1);
+            }
+            progress.end();
+            Merged::Sweep(SweepOutcome { points, rows })
+        }
+        Job::Plan { origin, scenario: r, histories, goal, cost_bps } => {
+            let o = PlanOptions { histories, goal: goal_of(&goal)?, cost_bps, threads };
+            let (setup, histories) = super::plan::prepare(&scenario(&r, &origin)?, &origin, &o)?;
+            Merged::Plan(Box::new(super::plan::from_tallies(setup, &histories, o.goal, &tallies, threads, progress)))
+        }
+    })
+}
