@@ -110,7 +110,7 @@ fn cases() -> Vec<(Case, String)> {
         t(RUN, "history = 27\nhorizons = 24\n{D}", &["line 1", "`history` must be at least horizons + 4 = 28"]),
         t(RUN, "assets = 100000\nhistory = 1000\n{D}", &["line 1", "`assets`", "assets × history ≤ 50000000"]),
         t(RUN, "paths = 0\n{D}", &["line 1", "`paths` must be at least 1"]),
-        t(RUN, "paths = 10000000\n{D}", &["line 1", "paths × horizons ≤ 20000000"]),
+        t(RUN, "paths = 200000000\n{D}", &["line 1", "`paths` must be at most 100000000"]),
         t(RUN, "periods_per_year = 0\n{D}", &["line 1", "`periods_per_year` must be > 0, got 0"]),
         t(RUN, "periods_per_year = 1e9\n{D}", &["line 1", "`periods_per_year` must be at most 1000000"]),
         t(RUN, "residual_vol = -0.1\n{D}", &["line 1", "`residual_vol` must be > 0"]),

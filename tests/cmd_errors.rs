@@ -133,8 +133,8 @@ fn portfolio_settings_are_checked() {
 fn sizes_that_would_exhaust_memory_are_refused() {
     let err = fails(&format!("assets = 1000000\nhistory = 1000\n{DECAY}"), &[]);
     has(&err, &["line 1", "`assets` must be such that assets × history ≤ 50000000"]);
-    let err = fails(DECAY, &["--paths", "1000000"]);
-    has(&err, &["`paths` must be such that paths × horizons ≤ 20000000"]);
+    let err = fails(DECAY, &["--paths", "200000000"]);
+    has(&err, &["`paths` must be at most 100000000"]);
 }
 
 #[test]
