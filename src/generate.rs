@@ -13,8 +13,14 @@
 //! - **recursion** (exponential curves): with `b_k = α·λ^{k−1} + β·ρ^{k−1}`,
 //!   the news part of the return over `(t, t+1]` is `α·X_{t+1} + β·f_t/sqrt(1−ρ²)`
 //!   with `X_{t+1} = λ·X_t + z_t`; the stationary start draws `(f_0, X_1)`
-//!   from their joint law (`Var X = 1/(1−λ²)`, `Cov(f, X) = sqrt(1−ρ²)/(1−ρλ)`).
+//!   from their joint law (`Var X = 1/(1−λ²)`, `Cov(f, X) = sqrt(1−ρ²)/(1−ρλ)`);
+//! - **exponential sum** (every other curve, when [`crate::exp_sum`] finds one
+//!   within its stated IC error): `m` such states `X_i` with weights `a_i`, plus
+//!   `s` explicit taps `d_k` on the latest news; the joint start of `f` and the
+//!   states (`Cov(X_i, X_j) = 1/(1−λ_iλ_j)`) is drawn `s` dates before the
+//!   first, and the recursion runs over those dates to fill the taps' news.
 
+use crate::exp_sum::ExponentialSum;
 use crate::measure::Panel;
 use crate::model::{Kernel, Model};
 use crate::rng::{PathRng, fill_normal};
@@ -54,6 +60,40 @@ enum News {
         /// `Cov(f_0, X_1)` and the residual sd of `X_1` given `f_0`.
         init: (f64, f64),
     },
+    Exponentials {
+        /// `β / sqrt(1−ρ²)`, the loading on the current forecast.
+        beta_f: f64,
+        /// Weights `a_i` and rates `λ_i` of the states.
+        weights: Vec<f64>,
+        rates: Vec<f64>,
+        /// Explicit taps `d_1 … d_s`.
+        taps: Vec<f64>,
+        /// `(m+1) × (m+1)` factor `A` (row-major) of the joint covariance of
+        /// `(f, X_1 … X_m)`: a start is `A·u` for standard normal `u`.
+        start: Vec<f64>,
+    },
+}
+
+/// A factor `A` with `A·Aᵀ = Σ` of the stationary covariance of `(f, X_1 … X_m)`
+/// (`Var f = 1`, `Cov(f, X_i) = c/(1−ρλ_i)`, `Cov(X_i, X_j) = 1/(1−λ_iλ_j)`),
+/// from its eigen-decomposition (eigenvalues below zero by rounding set to zero).
+fn start_factor(rho: f64, rates: &[f64]) -> Vec<f64> {
+    let c = (1.0 - rho * rho).sqrt();
+    let rate = |i: usize| if i == 0 { None } else { Some(rates[i - 1]) };
+    let dim = rates.len() + 1;
+    let cov = nalgebra::DMatrix::from_fn(dim, dim, |i, j| match (rate(i), rate(j)) {
+        (None, None) => 1.0,
+        (None, Some(l)) | (Some(l), None) => c / (1.0 - rho * l),
+        (Some(a), Some(b)) => 1.0 / (1.0 - a * b),
+    });
+    let eig = cov.symmetric_eigen();
+    let mut a = vec![0.0; dim * dim];
+    for i in 0..dim {
+        for j in 0..dim {
+            a[i * dim + j] = eig.eigenvectors[(i, j)] * eig.eigenvalues[j].max(0.0).sqrt();
+        }
+    }
+    a
 }
 
 /// One date of the exponential recursion over all assets: the return
@@ -85,14 +125,29 @@ pub struct Workspace {
     news: Vec<f64>,
     phi: Vec<f64>,
     f: Vec<f64>,
+    phi_noise: Vec<f64>,
     /// The simulated history.
     pub panel: Panel,
 }
 
 impl Generator {
-    /// A generator for `assets × dates` histories.
-    pub fn new(model: &Model, assets: usize, dates: usize, tails: Tails) -> Self {
+    /// A generator for `assets × dates` histories; `approx` replaces a
+    /// convolution's loadings by an exponential sum.
+    pub fn new(model: &Model, approx: Option<&ExponentialSum>, assets: usize, dates: usize, tails: Tails) -> Self {
         let rho = model.rho;
+        if let Some(e) = approx {
+            let b = e.loadings(rho, model.loadings.len());
+            let sum_b2: f64 = b.iter().map(|x| x * x).sum();
+            let idio_sd = (1.0 - sum_b2 - model.ic_vol * model.ic_vol).max(0.0).sqrt();
+            let news = News::Exponentials {
+                beta_f: e.beta / (1.0 - rho * rho).sqrt(),
+                weights: e.weights.clone(),
+                rates: e.rates.clone(),
+                taps: e.taps.clone(),
+                start: start_factor(rho, &e.rates),
+            };
+            return Self { assets, dates, rho, ic_vol: model.ic_vol, psi: model.psi, idio_sd, tails, news };
+        }
         let news = match model.kernel {
             Kernel::TwoExponential { alpha, lambda, beta } => {
                 let c = (1.0 - rho * rho).sqrt();
@@ -121,6 +176,7 @@ impl Generator {
         let news = match self.news {
             News::Convolution { k, .. } => n + n * (t + k - 1),
             News::Recursion { .. } => 2 * n + n * (t - 1),
+            News::Exponentials { ref weights, ref taps, .. } => (weights.len() + 1 + taps.len()) * n + n * (t - 1),
         };
         (t - 1) + news + n * (t - 1)
     }
@@ -149,7 +205,86 @@ impl Generator {
                 self.add_noise(rng, ws);
             }
             &News::Recursion { alpha, lambda, beta_f, init } => self.recurse(rng, ws, alpha, lambda, beta_f, init),
+            News::Exponentials { beta_f, weights, rates, taps, start } => {
+                self.exponentials(rng, ws, *beta_f, (weights, rates), taps, start);
+            }
         }
+    }
+
+    /// Forecasts and whole returns by the exponential sum's recursions and taps.
+    fn exponentials(
+        &self,
+        rng: &mut PathRng,
+        ws: &mut Workspace,
+        beta_f: f64,
+        (weights, rates): (&[f64], &[f64]),
+        taps: &[f64],
+        start: &[f64],
+    ) {
+        let (n, t, m, s) = (self.assets, self.dates, weights.len(), taps.len());
+        let c = (1.0 - self.rho * self.rho).sqrt();
+        // Buffers: m state rows, then news rows for dates 1−s ..= T−1 (date d at row d + s − 1).
+        let news_rows = s + t - 1;
+        ws.news.resize((m + news_rows) * n, 0.0);
+        ws.f.resize(n, 0.0);
+        let (x, z) = ws.news.split_at_mut(m * n);
+        // Stationary start of (f, X) at date −s (states holding news up to date −s).
+        let dim = m + 1;
+        let mut u = vec![0.0; dim * n];
+        fill_normal(rng, &mut u);
+        let f0 = &mut ws.f;
+        for a in 0..n {
+            for i in 0..dim {
+                let v: f64 = (0..dim).map(|j| start[i * dim + j] * u[j * n + a]).sum();
+                if i == 0 { f0[a] = v } else { x[(i - 1) * n + a] = v }
+            }
+        }
+        // Dates 1−s ..= 0: news for the taps; the forecast and states run over it.
+        let step = |f: &mut [f64], x: &mut [f64], z: &[f64]| {
+            for (fa, &za) in f.iter_mut().zip(z) {
+                *fa = self.rho * *fa + c * za;
+            }
+            for (i, &l) in rates.iter().enumerate() {
+                for (xa, &za) in x[i * n..(i + 1) * n].iter_mut().zip(z) {
+                    *xa = l * *xa + za;
+                }
+            }
+        };
+        for row in 0..s {
+            fill_normal(rng, &mut z[row * n..(row + 1) * n]);
+            step(f0, x, &z[row * n..(row + 1) * n]);
+        }
+        ws.panel.forecasts[..n].copy_from_slice(f0);
+        let mut e = std::mem::take(&mut ws.phi_noise);
+        e.resize(n, 0.0);
+        for row in 0..t - 1 {
+            self.draw_noise(rng, &mut e);
+            let (done, ahead) = ws.panel.forecasts.split_at_mut((row + 1) * n);
+            let f = &done[row * n..];
+            let r = &mut ws.panel.returns[row * n..(row + 1) * n];
+            let load = beta_f + ws.phi[row];
+            for a in 0..n {
+                r[a] = load * f[a] + self.idio_sd * e[a];
+            }
+            for (i, &w) in weights.iter().enumerate() {
+                for (ra, &xa) in r.iter_mut().zip(&x[i * n..(i + 1) * n]) {
+                    *ra += w * xa;
+                }
+            }
+            // Return row `row` loads d_k on the news of date row + 1 − k, at row row + s − k.
+            for (k, &d) in taps.iter().enumerate() {
+                let at = row + s - 1 - k;
+                for (ra, &za) in r.iter_mut().zip(&z[at * n..(at + 1) * n]) {
+                    *ra += d * za;
+                }
+            }
+            let zrow = &mut z[(row + s) * n..(row + s + 1) * n];
+            fill_normal(rng, zrow);
+            let next = &mut ahead[..n];
+            next.copy_from_slice(&f[..n]);
+            step(next, x, &z[(row + s) * n..(row + s + 1) * n]);
+        }
+        ws.phi_noise = e;
     }
 
     /// Forecasts and whole returns by recursion (exponential kernel), one

@@ -25,6 +25,7 @@ pub mod cli;
 
 // Scenario and truth.
 pub mod decay;
+pub mod exp_sum;
 pub mod model;
 pub mod scenario;
 pub mod truth;

@@ -290,6 +290,23 @@ impl Model {
         self.news_autocov(d) + self.ic_vol * self.ic_vol * (self.psi * self.rho).powi(d as i32)
     }
 
+    /// The same model with other loadings (an approximation's): pooled
+    /// correlations, shock moments and idiosyncratic sd follow from them;
+    /// `None` when they leave no room for noise.
+    pub fn with_loadings(&self, loadings: Vec<f64>) -> Option<Self> {
+        let pooled = pooled_from_loadings(&loadings, self.rho, loadings.len());
+        let sum_b2: f64 = loadings.iter().map(|b| b * b).sum();
+        let implied = 1.0 - sum_b2 - self.ic_vol * self.ic_vol;
+        (implied > 1e-6).then(|| Self {
+            shock_moments: shock_moments(self.ic_vol, pooled[0]),
+            pooled,
+            loadings,
+            idio_sd: implied.sqrt(),
+            kernel: Kernel::Convolution,
+            ..self.clone()
+        })
+    }
+
     /// Expected per-date lag-`k` IC at large `N`: `g_k·E0 + ρ^{k−1}·E1`.
     pub fn per_date_lagged_ic(&self, k: usize) -> f64 {
         let (e0, e1) = self.shock_moments;

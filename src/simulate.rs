@@ -33,8 +33,13 @@ impl Setup {
     /// Infeasible variance or no positive horizon IC.
     pub fn new(scenario: Scenario) -> Result<Self, ScenarioError> {
         let model = Model::new(&scenario)?;
-        let truth = Truth::new(&model, scenario.horizons, scenario.near_best_tolerance)?;
-        let generator = Generator::new(&model, scenario.assets, scenario.history, scenario.tails);
+        let mut truth = Truth::new(&model, scenario.horizons, scenario.near_best_tolerance)?;
+        let approx = crate::exp_sum::fit(&model, scenario.horizons);
+        if let Some(a) = &approx {
+            truth.generator = a.note();
+            truth.generator_ic_error = Some(a.ic_error);
+        }
+        let generator = Generator::new(&model, approx.as_ref(), scenario.assets, scenario.history, scenario.tails);
         Ok(Self { scenario, model, truth, generator })
     }
 }

@@ -49,6 +49,11 @@ pub struct Truth {
     pub loadings_used: usize,
     /// How the generator applies the loadings.
     pub generator: String,
+    /// Largest absolute difference, over the lagged and horizon ICs studied,
+    /// between this truth and the truth of the loadings the generator uses,
+    /// when it approximates them by an exponential sum ([`crate::exp_sum`]).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub generator_ic_error: Option<f64>,
 }
 
 impl Truth {
@@ -88,6 +93,7 @@ impl Truth {
             truncation: m.truncation(),
             loadings_used: m.loadings_used(),
             generator: m.kernel_note(),
+            generator_ic_error: None,
         })
     }
 
