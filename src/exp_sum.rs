@@ -84,9 +84,9 @@ impl ExponentialSum {
     }
 }
 
-/// The rates of `m` terms: time scales `τ` geometric from 0.5 to `longest`, `λ = e^{−1/τ}`.
-fn rates(m: usize, longest: f64) -> Vec<f64> {
-    let (lo, hi) = (0.5f64.ln(), longest.max(1.0).ln());
+/// The rates of `m` terms: time scales `τ` geometric from `shortest` to `longest`, `λ = e^{−1/τ}`.
+fn rates(m: usize, shortest: f64, longest: f64) -> Vec<f64> {
+    let (lo, hi) = (shortest.ln(), longest.max(shortest).ln());
     (0..m)
         .map(|i| {
             let t = if m == 1 { hi } else { lo + (hi - lo) * i as f64 / (m - 1) as f64 };
@@ -139,7 +139,8 @@ pub fn fit(model: &Model, l: usize) -> Option<ExponentialSum> {
     let b = model.loadings();
     let rho = model.rho();
     let exact = implied(model, l);
-    let longest = 2.0 * b.len() as f64;
+    let spans: Vec<(f64, f64)> =
+        [0.5, 1.0].into_iter().flat_map(|lo| [0.5, 1.0, 2.0, 4.0].map(|f| (lo, f * b.len() as f64))).collect();
     let rows = 2 * b.len() + 4 * (1.0 / (1.0 - rho.abs())).ceil() as usize + 16;
     let mut best: Option<(usize, ExponentialSum)> = None;
     for s in TAPS.into_iter().filter(|&s| s < b.len()) {
@@ -148,16 +149,19 @@ pub fn fit(model: &Model, l: usize) -> Option<ExponentialSum> {
             if cost >= b.len() || best.as_ref().is_some_and(|(c, _)| cost >= *c) {
                 break;
             }
-            let lambdas = rates(m, longest);
-            let Some((beta, weights)) = fit_weights(b, rho, &lambdas, s, rows) else { continue };
-            let mut approx =
-                ExponentialSum { taps: Vec::new(), beta, weights, rates: lambdas, ic_error: f64::INFINITY };
-            let smooth = approx.loadings(rho, s);
-            approx.taps = (0..s).map(|k| b[k] - smooth[k]).collect();
-            let Some(stand_in) = model.with_loadings(approx.loadings(rho, b.len())) else { continue };
-            let error = implied(&stand_in, l).iter().zip(&exact).map(|(a, e)| (a - e).abs()).fold(0.0, f64::max);
-            if error <= IC_TOLERANCE {
+            let found = spans.iter().find_map(|&(lo, hi)| {
+                let lambdas = rates(m, lo, hi);
+                let (beta, weights) = fit_weights(b, rho, &lambdas, s, rows)?;
+                let mut approx =
+                    ExponentialSum { taps: Vec::new(), beta, weights, rates: lambdas, ic_error: f64::INFINITY };
+                let smooth = approx.loadings(rho, s);
+                approx.taps = (0..s).map(|k| b[k] - smooth[k]).collect();
+                let stand_in = model.with_loadings(approx.loadings(rho, b.len()))?;
+                let error = implied(&stand_in, l).iter().zip(&exact).map(|(a, e)| (a - e).abs()).fold(0.0, f64::max);
                 approx.ic_error = error;
+                (error <= IC_TOLERANCE).then_some(approx)
+            });
+            if let Some(approx) = found {
                 best = Some((cost, approx));
                 break;
             }

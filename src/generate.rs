@@ -110,6 +110,38 @@ fn recursion_step(r: &mut [f64], f_next: &mut [f64], x: &mut [f64], f: &[f64], z
     }
 }
 
+/// Assets per block of the fused state pass (a few SIMD registers wide).
+const LANES: usize = 8;
+
+/// One date of the exponential sum's states over all assets, in one pass:
+/// `r += Σ_i a_i·X_i`, then `X_i ← λ_i·X_i + z` (states row-major, `X_i` at
+/// `x[i·n..]`). Blocks of [`LANES`] assets keep the partial sums in registers
+/// while every state is visited, instead of one pass over `r` per state.
+fn exponential_states(r: &mut [f64], x: &mut [f64], z: &[f64], weights: &[f64], rates: &[f64]) {
+    let n = r.len();
+    let mut a = 0;
+    while a + LANES <= n {
+        let mut acc: [f64; LANES] = r[a..a + LANES].try_into().expect("a block");
+        let zb: [f64; LANES] = z[a..a + LANES].try_into().expect("a block");
+        for (i, (&w, &l)) in weights.iter().zip(rates).enumerate() {
+            let xs: &mut [f64; LANES] = (&mut x[i * n + a..i * n + a + LANES]).try_into().expect("a block");
+            for j in 0..LANES {
+                acc[j] += w * xs[j];
+                xs[j] = l * xs[j] + zb[j];
+            }
+        }
+        r[a..a + LANES].copy_from_slice(&acc);
+        a += LANES;
+    }
+    for a in a..n {
+        for (i, (&w, &l)) in weights.iter().zip(rates).enumerate() {
+            let xa = &mut x[i * n + a];
+            r[a] += w * *xa;
+            *xa = l * *xa + z[a];
+        }
+    }
+}
+
 /// `r += φ·f + σ_e·e` over one date.
 fn add_row(r: &mut [f64], f: &[f64], e: &[f64], phi: f64, sd: f64) {
     let n = r.len();
@@ -259,6 +291,9 @@ impl Generator {
         e.resize(n, 0.0);
         for row in 0..t - 1 {
             self.draw_noise(rng, &mut e);
+            let (old, zrow) = z.split_at_mut((row + s) * n);
+            let zrow = &mut zrow[..n];
+            fill_normal(rng, zrow);
             let (done, ahead) = ws.panel.forecasts.split_at_mut((row + 1) * n);
             let f = &done[row * n..];
             let r = &mut ws.panel.returns[row * n..(row + 1) * n];
@@ -266,23 +301,17 @@ impl Generator {
             for a in 0..n {
                 r[a] = load * f[a] + self.idio_sd * e[a];
             }
-            for (i, &w) in weights.iter().enumerate() {
-                for (ra, &xa) in r.iter_mut().zip(&x[i * n..(i + 1) * n]) {
-                    *ra += w * xa;
-                }
-            }
             // Return row `row` loads d_k on the news of date row + 1 − k, at row row + s − k.
             for (k, &d) in taps.iter().enumerate() {
                 let at = row + s - 1 - k;
-                for (ra, &za) in r.iter_mut().zip(&z[at * n..(at + 1) * n]) {
+                for (ra, &za) in r.iter_mut().zip(&old[at * n..(at + 1) * n]) {
                     *ra += d * za;
                 }
             }
-            let zrow = &mut z[(row + s) * n..(row + s + 1) * n];
-            fill_normal(rng, zrow);
-            let next = &mut ahead[..n];
-            next.copy_from_slice(&f[..n]);
-            step(next, x, &z[(row + s) * n..(row + s + 1) * n]);
+            exponential_states(r, x, zrow, weights, rates);
+            for ((next, &fa), &za) in ahead[..n].iter_mut().zip(&f[..n]).zip(zrow.iter()) {
+                *next = self.rho * fa + c * za;
+            }
         }
         ws.phi_noise = e;
     }
