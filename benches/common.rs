@@ -7,6 +7,11 @@ use std::time::Instant;
 
 /// The default preset at `N = 1000, T = 120, L = 24` with `paths` paths.
 pub fn setup(paths: usize) -> Setup {
+    setup_of(presets::DEFAULT, paths)
+}
+
+/// Preset `name` at `N = 1000, T = 120, L = 24` with `paths` paths.
+pub fn setup_of(name: &str, paths: usize) -> Setup {
     let ov = Overrides {
         assets: Some(1000),
         history: Some(120),
@@ -15,7 +20,7 @@ pub fn setup(paths: usize) -> Setup {
         seed: Some(7),
         ..Overrides::default()
     };
-    let s = scenario::load(presets::text(presets::DEFAULT).unwrap(), "bench", "bench", &ov).unwrap();
+    let s = scenario::load(presets::text(name).unwrap(), "bench", "bench", &ov).unwrap();
     Setup::new(s).unwrap()
 }
 

@@ -2,7 +2,10 @@
 //! number of standard normals, and the parts of a path. Prints, each from one
 //! interleaved run: core path (simulate, measure, three rules) / bare draws
 //! (target: at most 3); the core path against the NumPy reference of NOTES.md
-//! (target: 4× faster); the portfolio layer / core path (target: at most 0.5).
+//! (target: 4× faster); the portfolio layer / core path (target: at most 0.5);
+//! and every preset's core path at the same size against the exponential
+//! default's (target: at most 1.3), with how its generator applies the
+//! loadings and the largest IC error of an exponential-sum approximation.
 
 mod common;
 
@@ -64,9 +67,41 @@ fn ratio_report(setup: &Setup) {
     );
 }
 
+/// Every preset at the bench's size against the default (exponential) preset.
+fn presets_report(default: &Setup) {
+    println!("preset path / exponential default path at N = 1000, T = 120, L = 24 (one thread; target ≤ 1.3)");
+    for (name, _) in lagfold::scenario::presets::ALL {
+        let setup = common::setup_of(name, 1);
+        let (mut a, mut b, mut p, mut q) = (Worker::new(&setup.scenario), Worker::new(&default.scenario), 0u64, 0u64);
+        let (preset, base) = common::interleaved(
+            10,
+            || {
+                p += 1;
+                black_box(a.measure_path(&setup, p));
+            },
+            || {
+                q += 1;
+                black_box(b.measure_path(default, q));
+            },
+        );
+        let t = &setup.truth;
+        let error = t.generator_ic_error.map_or("exact".to_string(), |e| format!("IC error {e:.1e}"));
+        let tails = if setup.scenario.tails() == lagfold::scenario::Tails::Normal { "normal" } else { "Student t" };
+        println!(
+            "  {name:<16} {:.2}×  ({:.2} ms vs {:.2} ms; {tails} noise; {error}; {})",
+            preset / base,
+            preset * 1e3,
+            base * 1e3,
+            t.generator
+        );
+    }
+    println!();
+}
+
 fn benches(c: &mut Criterion) {
     let setup = common::setup(1);
     ratio_report(&setup);
+    presets_report(&setup);
     let mut rng = path_rng(7, 0);
     let mut buf = vec![0.0; setup.generator.draws_per_path()];
     let mut worker = Worker::new(&setup.scenario);

@@ -345,6 +345,23 @@ impl Generator {
     fn draw_noise(&self, rng: &mut PathRng, e: &mut [f64]) {
         match self.tails {
             Tails::Normal => fill_normal(rng, e),
+            // A whole number of degrees of freedom (up to 30): t = z/sqrt(χ²_ν/ν)
+            // with χ²_ν = −2·ln(U_1⋯U_{⌊ν/2⌋}) (+ z'² when ν is odd), the sum of
+            // exponential variates that a chi-square of even order is (Devroye,
+            // 1986, ch. IX); scaled to unit variance, t·sqrt((ν−2)/ν) = z·sqrt((ν−2)/χ²).
+            Tails::StudentT { dof } if dof.fract() == 0.0 && dof <= 30.0 => {
+                fill_normal(rng, e);
+                let (pairs, odd) = ((dof / 2.0) as usize, dof as usize % 2 == 1);
+                for x in e.iter_mut() {
+                    let product: f64 = (0..pairs).map(|_| 1.0 - rng.random::<f64>()).product();
+                    let mut chi2 = -2.0 * product.ln();
+                    if odd {
+                        let z: f64 = rng.sample(rand_distr::StandardNormal);
+                        chi2 += z * z;
+                    }
+                    *x *= ((dof - 2.0) / chi2).sqrt();
+                }
+            }
             Tails::StudentT { dof } => {
                 let law = StudentT::new(dof).expect("dof > 2 is validated");
                 let scale = ((dof - 2.0) / dof).sqrt();
@@ -412,6 +429,50 @@ impl Generator {
         for ((r, f), &phi) in rows {
             self.draw_noise(rng, e);
             add_row(r, f, e, phi, self.idio_sd);
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::stats::CHECK_SIGMAS;
+    use statrs::distribution::{ContinuousCDF, StudentsT};
+
+    /// The noise of a Student-t scenario against the t law itself (statrs):
+    /// unit variance, and the share beyond each of a few points equal to the
+    /// t distribution's tail, within `CHECK_SIGMAS` binomial standard errors,
+    /// for even and odd whole-number and fractional degrees of freedom.
+    #[test]
+    fn student_t_noise_follows_the_t_law() {
+        for dof in [4.0, 5.0, 6.0, 7.5] {
+            let g = Generator {
+                assets: 1,
+                dates: 2,
+                rho: 0.0,
+                ic_vol: 0.0,
+                psi: 0.0,
+                idio_sd: 1.0,
+                tails: Tails::StudentT { dof },
+                news: News::Convolution { k: 1, toeplitz: Vec::new() },
+            };
+            let mut e = vec![0.0; 400_000];
+            g.draw_noise(&mut crate::rng::path_rng(3, dof as u64), &mut e);
+            let n = e.len() as f64;
+            let scale = ((dof - 2.0) / dof).sqrt();
+            let law = StudentsT::new(0.0, 1.0, dof).unwrap();
+            for c in [0.5, 1.0, 2.0, 3.0] {
+                let want = 1.0 - law.cdf(c / scale);
+                let got = e.iter().filter(|&&x| x > c).count() as f64 / n;
+                let se = (want * (1.0 - want) / n).sqrt();
+                assert!((got - want).abs() < CHECK_SIGMAS * se, "dof {dof}, P(x > {c}) {got} vs {want} ± {se}");
+            }
+            let var = e.iter().map(|x| x * x).sum::<f64>() / n;
+            // sd of x² is sqrt(E x⁴ − 1) = sqrt(3(ν−2)/(ν−4) − 1); kurtosis is finite for ν > 4 only.
+            if dof > 4.0 {
+                let se = ((3.0 * (dof - 2.0) / (dof - 4.0) - 1.0) / n).sqrt();
+                assert!((var - 1.0).abs() < CHECK_SIGMAS * se, "dof {dof}: variance {var} ± {se}");
+            }
         }
     }
 }
