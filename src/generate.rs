@@ -345,23 +345,6 @@ impl Generator {
     fn draw_noise(&self, rng: &mut PathRng, e: &mut [f64]) {
         match self.tails {
             Tails::Normal => fill_normal(rng, e),
-            // A whole number of degrees of freedom (up to 30): t = z/sqrt(χ²_ν/ν)
-            // with χ²_ν = −2·ln(U_1⋯U_{⌊ν/2⌋}) (+ z'² when ν is odd), the sum of
-            // exponential variates that a chi-square of even order is (Devroye,
-            // 1986, ch. IX); scaled to unit variance, t·sqrt((ν−2)/ν) = z·sqrt((ν−2)/χ²).
-            Tails::StudentT { dof } if dof.fract() == 0.0 && dof <= 30.0 => {
-                fill_normal(rng, e);
-                let (pairs, odd) = ((dof / 2.0) as usize, dof as usize % 2 == 1);
-                for x in e.iter_mut() {
-                    let product: f64 = (0..pairs).map(|_| 1.0 - rng.random::<f64>()).product();
-                    let mut chi2 = -2.0 * product.ln();
-                    if odd {
-                        let z: f64 = rng.sample(rand_distr::StandardNormal);
-                        chi2 += z * z;
-                    }
-                    *x *= ((dof - 2.0) / chi2).sqrt();
-                }
-            }
             Tails::StudentT { dof } => {
                 let law = StudentT::new(dof).expect("dof > 2 is validated");
                 let scale = ((dof - 2.0) / dof).sqrt();
@@ -441,8 +424,7 @@ mod tests {
 
     /// The noise of a Student-t scenario against the t law itself (statrs):
     /// unit variance, and the share beyond each of a few points equal to the
-    /// t distribution's tail, within `CHECK_SIGMAS` binomial standard errors,
-    /// for even and odd whole-number and fractional degrees of freedom.
+    /// t distribution's tail, within `CHECK_SIGMAS` binomial standard errors.
     #[test]
     fn student_t_noise_follows_the_t_law() {
         for dof in [4.0, 5.0, 6.0, 7.5] {
