@@ -1,8 +1,9 @@
 //! One study path at `N = 1000, T = 120, L = 24` against drawing the same
 //! number of standard normals, and the parts of a path. Prints, each from one
 //! interleaved run: core path (simulate, measure, three rules) / bare draws
-//! (target: at most 3); the core path against the NumPy reference of NOTES.md
-//! (target: 4× faster); the portfolio layer / core path (target: at most 0.5);
+//! (target: at most 3); the whole path with the books against the same path
+//! in plain NumPy (`benches/numpy_path.py`, run in the same session; target:
+//! 5× faster); the portfolio layer / core path (target: at most 0.5);
 //! and every preset's core path at the same size against the exponential
 //! default's (target: at most 1.3), with how its generator applies the
 //! loadings and the largest IC error of an exponential-sum approximation.
@@ -18,8 +19,73 @@ use lagfold::simulate::Setup;
 use lagfold::study::Worker;
 use std::hint::black_box;
 
-/// NumPy implementation of one study path on one thread (NOTES.md), seconds.
-const NUMPY_PATH: f64 = 0.010;
+/// Seconds per path of `benches/numpy_path.py` (the same path in plain NumPy,
+/// one BLAS thread) on `setup`'s scenario, or why it could not run. Python is
+/// `LAGFOLD_PYTHON`, else the virtual environment `scripts/check-python`
+/// makes, else `python3`.
+fn numpy_path(setup: &Setup) -> Result<f64, String> {
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
+    let venv = root.join("target/python-venv/bin/python");
+    let python = std::env::var("LAGFOLD_PYTHON")
+        .unwrap_or_else(|_| if venv.exists() { venv.display().to_string() } else { "python3".into() });
+    let m = &setup.model;
+    let lagfold::model::Kernel::TwoExponential { alpha, lambda, beta } = m.kernel() else {
+        return Err("the default preset is no longer exponential".into());
+    };
+    let s = &setup.scenario;
+    let params = serde_json::json!({
+        "assets": s.assets(), "history": s.history(), "horizons": s.horizons(),
+        "rho": m.rho(), "lambda": lambda, "alpha": alpha, "beta_f": beta / (1.0 - m.rho() * m.rho()).sqrt(),
+        "ic_vol": m.ic_vol(), "psi": m.psi(), "idio_sd": m.idio_sd(),
+    });
+    let out = std::process::Command::new(&python)
+        .arg(root.join("benches/numpy_path.py"))
+        .arg(params.to_string())
+        .arg("40")
+        .envs([("OPENBLAS_NUM_THREADS", "1"), ("OMP_NUM_THREADS", "1"), ("MKL_NUM_THREADS", "1")])
+        .output()
+        .map_err(|e| format!("{python}: {e}"))?;
+    if !out.status.success() {
+        let err = String::from_utf8_lossy(&out.stderr);
+        return Err(format!("{python}: {}", err.lines().last().unwrap_or("failed")));
+    }
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).map_err(|e| e.to_string())?;
+    v["seconds_per_path"].as_f64().ok_or_else(|| "no seconds_per_path in its output".into())
+}
+
+/// Median seconds of a whole path (with the books) over `calls` calls.
+fn whole_path_seconds(setup: &Setup, worker: &mut Worker, p: &mut u64, calls: usize) -> f64 {
+    let mut t: Vec<f64> = (0..calls)
+        .map(|_| {
+            *p += 1;
+            let start = std::time::Instant::now();
+            black_box(worker.run_path(setup, *p));
+            start.elapsed().as_secs_f64()
+        })
+        .collect();
+    t.sort_by(f64::total_cmp);
+    t[t.len() / 2]
+}
+
+/// lagfold's whole path against the NumPy script's, timed back to back:
+/// lagfold's before and after the script, averaged.
+fn numpy_report(setup: &Setup) {
+    let (mut worker, mut p) = (Worker::new(&setup.scenario), 1_000u64);
+    let before = whole_path_seconds(setup, &mut worker, &mut p, 200);
+    match numpy_path(setup) {
+        Ok(numpy) => {
+            let after = whole_path_seconds(setup, &mut worker, &mut p, 200);
+            let ours = 0.5 * (before + after);
+            println!(
+                "speed  whole path with the books, one thread: {:.2} ms; benches/numpy_path.py {:.2} ms → {:.1}× (target ≥ 5×)",
+                ours * 1e3,
+                numpy * 1e3,
+                numpy / ours
+            );
+        }
+        Err(why) => println!("speed  NumPy comparison skipped ({why}); run scripts/check-python first"),
+    }
+}
 
 fn ratio_report(setup: &Setup) {
     let draws = setup.generator.draws_per_path();
@@ -39,12 +105,7 @@ fn ratio_report(setup: &Setup) {
         path * 1e3,
         bare * 1e3
     );
-    println!(
-        "speed  one core path on one thread = {:.3} ms; NumPy reference {:.0} ms (NOTES.md) → {:.1}× (target ≥ 4×)",
-        path * 1e3,
-        NUMPY_PATH * 1e3,
-        NUMPY_PATH / path
-    );
+    numpy_report(setup);
     // The portfolio layer: the linear books of every holding length, against the rest of the path.
     let (mut ws, mut meas, mut books) = (Workspace::default(), Measurement::new(24, false), BookBuilder::default());
     setup.generator.simulate(&mut path_rng(9, 0), &mut ws);
