@@ -245,6 +245,17 @@ impl Histogram {
         a + frac * (self.order_statistic((lo + 1).min(n - 1)) - a)
     }
 
+    /// Whether the histogram keeps its invariants (a part read from a file
+    /// may not): a width from 2⁻⁶⁴ to 2¹⁰²⁴, at most [`BINS`] bins, the
+    /// first and last of them not empty.
+    pub fn is_valid(&self) -> bool {
+        (FINEST..=1024).contains(&self.exp)
+            && self.counts.len() <= BINS
+            && self.counts.first().is_none_or(|&c| c > 0)
+            && self.counts.last().is_none_or(|&c| c > 0)
+            && self.first.checked_add(self.counts.len() as i128).is_some()
+    }
+
     /// Bytes held by the counts.
     pub fn heap_bytes(&self) -> usize {
         self.counts.capacity() * std::mem::size_of::<u32>()

@@ -127,7 +127,16 @@ fn parts_that_do_not_make_one_run_are_refused_by_name() {
     refused(&[a.clone(), d.join("nowhere")], &["nowhere: cannot read a shard's part"]);
     std::fs::write(d.join("x.json"), "{\"format\": 1}").unwrap();
     refused(&[a.clone(), d.join("x.json")], &["x.json: written by lagfold unknown"]);
+    // A part whose tallies were cut short is refused, not a panic.
     let c = shard("1", "2/3", "c2");
+    // (Edited as text: its sums are 128-bit integers, which a JSON value would turn into floats.)
+    let text = std::fs::read_to_string(c.join("part.json")).unwrap();
+    let at = text.find("\"families\":[").unwrap() + "\"families\":[".len();
+    let end = at + text[at..].find(']').unwrap();
+    let cut = format!("{}{}{}", &text[..at], text[at..end].rsplit_once(',').unwrap().0, &text[end..]);
+    std::fs::create_dir(d.join("cut")).unwrap();
+    std::fs::write(d.join("cut/part.json"), cut).unwrap();
+    refused(&[a.clone(), b.clone(), d.join("cut")], &["do not fit the run they record"]);
     merge(&[a, b, c], &d.join("m")).success();
     // Bad shard numbers are refused before any work.
     for bad in ["3/3", "1/0", "x"] {

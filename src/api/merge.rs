@@ -121,6 +121,19 @@ fn combine(parts: &[(String, Part)]) -> Result<(Job, Vec<StudyTally>), Error> {
         };
         return Err(Error::Input(format!("shards missing: {list}; run them and merge every part")));
     }
+    for (name, p) in parts {
+        let (tallies, shape) = (&p.tallies, &first.tallies);
+        let same = tallies.iter().zip(shape).all(|(a, b)| {
+            a.net.len() == b.net.len()
+                && a.rank_lagged.is_some() == b.rank_lagged.is_some()
+                && a.fits(b.lagged.sums.len())
+        });
+        if !same {
+            return Err(Error::Input(format!(
+                "{name}: its tallies do not fit the run they record (or {first_name}'s); were the files altered?"
+            )));
+        }
+    }
     let mut tallies = first.tallies.clone();
     for (_, p) in &parts[1..] {
         tallies.iter_mut().zip(&p.tallies).for_each(|(a, b)| a.merge(b));
@@ -143,10 +156,28 @@ pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progres
     let parts = parts.iter().map(|(n, b)| Ok((n.clone(), read(n, b)?))).collect::<Result<Vec<_>, Error>>()?;
     let (job, tallies) = combine(&parts)?;
     let threads = super::threads_or_all(threads);
+    let command = job.command();
+    // A part's tallies must fit the job they claim (lags and count), or the
+    // finish would index past them: a damaged or hand-edited file.
+    let fit = |l: usize, want: usize| {
+        if tallies.len() == want && tallies.iter().all(|t| t.fits(l)) {
+            Ok(())
+        } else {
+            Err(Error::Input(format!(
+                "{}: the parts' tallies do not fit the {} they record; were the files altered?",
+                parts[0].0, command
+            )))
+        }
+    };
     Ok(match job {
         Job::Run { origin, scenario: r, cost_bps, more_history } => {
             let o = StudyOptions { threads, cost_bps, more_history };
-            let (setup, _) = super::study::prepare(&scenario(&r, &origin)?, &origin, &o)?;
+            let (setup, sweep) = super::study::prepare(&scenario(&r, &origin)?, &origin, &o)?;
+            let longer = o.more_history && study::more_history_setup(&setup).is_some();
+            fit(setup.scenario.horizons, 1 + usize::from(longer))?;
+            if tallies[0].net.len() != 1 + sweep.len() {
+                return Err(Error::Input(format!("{}: the tallies do not hold the run's cost levels", parts[0].0)));
+            }
             Merged::Study(Box::new(super::study::from_tallies(setup, &tallies, threads, progress)))
         }
         Job::Sweep { origin, points, cost_bps } => {
@@ -154,6 +185,11 @@ pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progres
                 .iter()
                 .map(|(at, r)| Ok(Point { at: at.clone(), scenario: scenario(r, &origin)? }))
                 .collect::<Result<Vec<_>, Error>>()?;
+            if tallies.len() != points.len()
+                || points.iter().zip(&tallies).any(|(p, t)| !t.fits(p.scenario.horizons) || t.net.len() != 1)
+            {
+                return Err(Error::Input(format!("{}: the tallies do not fit the sweep's points", parts[0].0)));
+            }
             progress.begin("reference", points.len());
             let mut rows = Vec::with_capacity(points.len());
             for (i, (p, tally)) in points.iter().zip(&tallies).enumerate() {
@@ -168,6 +204,7 @@ pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progres
         Job::Plan { origin, scenario: r, histories, goal, cost_bps } => {
             let o = PlanOptions { histories, goal: goal_of(&goal)?, cost_bps, threads };
             let (setup, histories) = super::plan::prepare(&scenario(&r, &origin)?, &origin, &o)?;
+            fit(setup.scenario.horizons, histories.len())?;
             Merged::Plan(Box::new(super::plan::from_tallies(setup, &histories, o.goal, &tallies, threads, progress)))
         }
     })

@@ -162,6 +162,21 @@ impl StudyTally {
         }
     }
 
+    /// Whether the tally is whole and shaped for `l` lags and horizons (a
+    /// part read from a file may not be): every per-choice and per-point
+    /// vector of length `l`, each rule's counts adding up to the paths.
+    pub fn fits(&self, l: usize) -> bool {
+        let choice = |c: &ChoiceTally| c.counts.len() == l && c.measured.len() == l && c.paths() == self.paths;
+        let curve = |c: &CurveTally| c.sums.len() == l && c.bands.len() == l && c.bands.iter().all(Histogram::is_valid);
+        Rule::HORIZON.iter().all(|&r| choice(&self.rules[r]))
+            && self.pairs.len() == rule_pairs().len()
+            && self.families.len() == Family::ALL.len()
+            && curve(&self.lagged)
+            && curve(&self.horizon)
+            && self.rank_lagged.as_ref().is_none_or(curve)
+            && self.net.iter().all(|n| choice(&n.choice) && curve(&n.curve))
+    }
+
     /// Adds another part's paths.
     pub fn merge(&mut self, o: &Self) {
         self.paths += o.paths;
