@@ -74,7 +74,7 @@ pub(super) fn tallies(
     progress: &dyn Progress,
 ) -> Vec<study::StudyTally> {
     let threads = super::threads_or_all(o.threads);
-    let costs: Vec<f64> = std::iter::once(setup.scenario.portfolio.cost_bps).chain(sweep.iter().copied()).collect();
+    let costs = study::study_costs(setup, sweep);
     let paths = block(setup.scenario.paths);
     let mut out =
         vec![stage(progress, "study", paths.len(), |p| study::simulate_all(setup, Some(&costs), paths, threads, p))];

@@ -98,9 +98,9 @@ pub fn run_horizons(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + S
 }
 
 /// The one-way costs (basis points) whose net-IR rule a study follows: the
-/// portfolio's, then each of `sweep`.
-pub fn study_costs(portfolio: &PortfolioTruth, sweep: &[f64]) -> Vec<f64> {
-    std::iter::once(portfolio.cost_bps).chain(sweep.iter().copied()).collect()
+/// scenario's (the portfolio truth's), then each of `sweep`.
+pub fn study_costs(setup: &Setup, sweep: &[f64]) -> Vec<f64> {
+    std::iter::once(setup.scenario.portfolio.cost_bps).chain(sweep.iter().copied()).collect()
 }
 
 /// Runs every path on `threads` threads, reporting paths done to `progress`.
@@ -113,7 +113,7 @@ pub fn run(
     threads: usize,
     progress: &(dyn Fn(usize) + Sync),
 ) -> StudyResult {
-    let costs = study_costs(portfolio, sweep);
+    let costs = study_costs(setup, sweep);
     let tally = simulate_all(setup, Some(&costs), 0..setup.scenario.paths, threads, progress);
     finish(setup, portfolio, &tally)
 }
