@@ -110,18 +110,11 @@ fn fit_weights(b: &[f64], rho: f64, rates: &[f64], s: usize, rows: usize) -> Opt
 }
 
 /// The truth a set of loadings implies, for the error check: per-date lagged
-/// ICs and pooled horizon ICs of lags and horizons `1..=l`.
+/// ICs and pooled horizon ICs ([`crate::truth::pooled_horizon_ic`]) of lags
+/// and horizons `1..=l`.
 fn implied(m: &Model, l: usize) -> Vec<f64> {
-    let lagged = (1..=l).map(|k| m.per_date_lagged_ic(k));
-    let gamma: Vec<f64> = (0..l).map(|d| m.return_autocov(d)).collect();
-    let mut out: Vec<f64> = lagged.collect();
-    let (mut sum_g, mut var) = (0.0, 0.0);
-    for n in 1..=l {
-        sum_g += m.g(n);
-        // V_n = n + 2·Σ_{d<n} (n−d)·γ_d, built up as V_n = V_{n−1} + 1 + 2·Σ_{d=1}^{n−1} γ_d.
-        var += 1.0 + 2.0 * gamma[1..n].iter().sum::<f64>();
-        out.push(sum_g / var.sqrt());
-    }
+    let mut out: Vec<f64> = (1..=l).map(|k| m.per_date_lagged_ic(k)).collect();
+    out.extend(crate::truth::pooled_horizon_ic(m, l));
     out
 }
 

@@ -255,11 +255,6 @@ impl Histogram {
             && self.counts.last().is_none_or(|&c| c > 0)
             && self.first.checked_add(self.counts.len() as i128).is_some()
     }
-
-    /// Bytes held by the counts.
-    pub fn heap_bytes(&self) -> usize {
-        self.counts.capacity() * std::mem::size_of::<u32>()
-    }
 }
 
 #[cfg(test)]

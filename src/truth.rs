@@ -68,9 +68,7 @@ impl Truth {
             &(1..=l).map(|k| m.target.get(k - 1).copied().unwrap_or(0.0)).collect::<Vec<_>>(),
             |n| n as f64,
         );
-        let gamma: Vec<f64> = (0..l).map(|d| m.return_autocov(d)).collect();
-        let pooled_var = |n: usize| n as f64 + 2.0 * (1..n).map(|d| (n - d) as f64 * gamma[d]).sum::<f64>();
-        let horizon_ic_pooled = cumulative_over_sqrt(&(1..=l).map(|k| m.g(k)).collect::<Vec<_>>(), pooled_var);
+        let horizon_ic_pooled = pooled_horizon_ic(m, l);
         let (horizon_ic, horizon_ic_integration_se) =
             if m.ic_vol == 0.0 { (horizon_ic_pooled.clone(), 0.0) } else { per_date_horizon_ic(m, l) };
         let best_horizon = argmax1(&horizon_ic);
@@ -109,6 +107,14 @@ impl Truth {
 }
 
 /// `Σ_{k≤n} x_k / sqrt(var(n))` for `n = 1..=len`.
+/// The pooled horizon IC `H(n) = Σ_{k≤n} g_k / sqrt(V_n)`,
+/// `V_n = n + 2·Σ_{d<n} (n−d)·γ_d`, for `n = 1..=l`.
+pub fn pooled_horizon_ic(m: &Model, l: usize) -> Vec<f64> {
+    let gamma: Vec<f64> = (0..l).map(|d| m.return_autocov(d)).collect();
+    let pooled_var = |n: usize| n as f64 + 2.0 * (1..n).map(|d| (n - d) as f64 * gamma[d]).sum::<f64>();
+    cumulative_over_sqrt(&(1..=l).map(|k| m.g(k)).collect::<Vec<_>>(), pooled_var)
+}
+
 fn cumulative_over_sqrt(x: &[f64], var: impl Fn(usize) -> f64) -> Vec<f64> {
     let mut s = 0.0;
     x.iter()

@@ -94,11 +94,16 @@ fn combine(parts: &[(String, Part)]) -> Result<(Job, Vec<StudyTally>), Error> {
                 p.shard, first.shard
             )));
         }
-        if p.tallies.len() != first.tallies.len() {
+        // Shaped as the first part's (and whole), or the finish would index past them.
+        let same = p.tallies.len() == first.tallies.len()
+            && p.tallies.iter().zip(&first.tallies).all(|(a, b)| {
+                a.net.len() == b.net.len()
+                    && a.rank_lagged.is_some() == b.rank_lagged.is_some()
+                    && a.fits(b.lagged.sums.len())
+            });
+        if !same {
             return Err(Error::Input(format!(
-                "{name}: {} tallies, {first_name} has {}",
-                p.tallies.len(),
-                first.tallies.len()
+                "{name}: its tallies do not fit the run they record (or {first_name}'s); were the files altered?"
             )));
         }
         match seen[p.shard.index] {
@@ -120,19 +125,6 @@ fn combine(parts: &[(String, Part)]) -> Result<(Job, Vec<StudyTally>), Error> {
             missing.join(", ")
         };
         return Err(Error::Input(format!("shards missing: {list}; run them and merge every part")));
-    }
-    for (name, p) in parts {
-        let (tallies, shape) = (&p.tallies, &first.tallies);
-        let same = tallies.iter().zip(shape).all(|(a, b)| {
-            a.net.len() == b.net.len()
-                && a.rank_lagged.is_some() == b.rank_lagged.is_some()
-                && a.fits(b.lagged.sums.len())
-        });
-        if !same {
-            return Err(Error::Input(format!(
-                "{name}: its tallies do not fit the run they record (or {first_name}'s); were the files altered?"
-            )));
-        }
     }
     let mut tallies = first.tallies.clone();
     for (_, p) in &parts[1..] {

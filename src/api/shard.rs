@@ -122,8 +122,6 @@ pub struct Part {
     pub shard: Shard,
     /// What was run.
     pub job: Job,
-    /// Paths this shard ran, per tally.
-    pub paths: Vec<usize>,
     /// The tallies of its paths (per command: see [`super::merge()`]).
     pub tallies: Vec<StudyTally>,
 }
@@ -136,7 +134,7 @@ impl super::Outcome for Part {
     }
 
     fn terminal(&self) -> String {
-        let paths: usize = self.paths.iter().sum();
+        let paths: u64 = self.tallies.iter().map(|t| t.paths).sum();
         format!(
             "shard {} of lagfold {}: {paths} paths simulated; merge every shard's folder with `lagfold merge`\n",
             self.shard,
@@ -150,8 +148,7 @@ fn record(s: &Scenario) -> Result<ScenarioRecord, Error> {
 }
 
 fn part(shard: Shard, job: Job, tallies: Vec<StudyTally>) -> Part {
-    let paths = tallies.iter().map(|t| t.paths as usize).collect();
-    Part { format: PART_FORMAT, version: env!("CARGO_PKG_VERSION").into(), shard, job, paths, tallies }
+    Part { format: PART_FORMAT, version: env!("CARGO_PKG_VERSION").into(), shard, job, tallies }
 }
 
 /// Shard `shard` of [`study()`](super::study()).
