@@ -1,8 +1,8 @@
 #!/usr/bin/env bash
-# Submits one lagfold run, sweep or plan to Slurm as a job array of shards and
+# Submits one lagfold run, sweep, plan or stress test to Slurm as a job array of shards and
 # a dependent merge job.
 #
-#   scripts/slurm-array.sh SCENARIO --shards N [--out DIR] [--command run|plan]
+#   scripts/slurm-array.sh SCENARIO --shards N [--out DIR] [--command run|plan|stress]
 #                          [--cpus C] [--partition P] [-- MORE LAGFOLD OPTIONS]
 #
 # Task K of the array runs `lagfold COMMAND SCENARIO --shard K/N --out
@@ -39,7 +39,7 @@ case "$shards" in
 esac
 [ "$shards" -ge 1 ] && [ "$shards" -le 10000 ] \
   || { echo "slurm-array.sh: --shards must be from 1 to 10000 (got $shards)" >&2; exit 2; }
-case "$command" in run|plan) ;; *) echo "slurm-array.sh: --command is run or plan (got '$command')" >&2; exit 2 ;; esac
+case "$command" in run|plan|stress) ;; *) echo "slurm-array.sh: --command is run, plan or stress (got '$command')" >&2; exit 2 ;; esac
 case "$cpus" in ''|*[!0-9]*|0) echo "slurm-array.sh: --cpus must be a whole number of at least 1" >&2; exit 2 ;; esac
 command -v sbatch >/dev/null || { echo "slurm-array.sh: sbatch not found: is this a Slurm login node?" >&2; exit 2; }
 
@@ -72,8 +72,8 @@ echo "merged outputs: $out/merged   logs: $out/logs"
 
 if [ -n "$wait" ]; then
   while squeue -h -j "$array,$merge" 2>/dev/null | grep -q .; do sleep 1; done
-  [ -f "$out/merged/$([ "$command" = plan ] && echo plan.json || echo summary.json)" ] \
-    || [ -f "$out/merged/sweep.json" ] \
+  case "$command" in plan) want=plan.json ;; stress) want=stress.json ;; *) want=summary.json ;; esac
+  [ -f "$out/merged/$want" ] || [ -f "$out/merged/sweep.json" ] \
     || { echo "slurm-array.sh: the merge did not finish; see $out/logs" >&2; tail -n 5 "$out"/logs/*.log >&2; exit 1; }
   echo "done: $out/merged"
 fi

@@ -5,11 +5,13 @@
 
 use crate::decay::DecayCurve;
 use crate::error::ScenarioError;
-use crate::portfolio::PortfolioTruth;
+use crate::portfolio::BookSums;
+use crate::portfolio::truth::{net_ir_at, pool, reference_books};
 use crate::scenario::Scenario;
 use crate::simulate::Setup;
 use crate::stats::argmax1;
 use serde::Serialize;
+use std::ops::Range;
 
 /// How many times faster or slower the default alternatives decay.
 const SPEED: f64 = 2.0;
@@ -110,6 +112,90 @@ pub fn regret_matrix(what: &str, values: &[&[f64]]) -> RegretMatrix {
     RegretMatrix { what: what.into(), chosen: best.clone(), regret, regret_rel, minimax, minimax_worst_rel }
 }
 
+/// Every curve of a stress test of `scenario` with its set-up: the assumed
+/// one first, the default alternatives unless replaced, then the scenario's.
+///
+/// # Errors
+/// A curve that is infeasible or never positive, with its name.
+pub fn curves(scenario: &Scenario) -> Result<Vec<(String, Setup)>, (String, ScenarioError)> {
+    let assumed = Setup::new(scenario.clone()).map_err(|e| ("assumed".to_string(), e))?;
+    let mut curves = vec![];
+    if !scenario.replace_default_alternatives {
+        curves.extend(default_alternatives(&scenario.decay, scenario.truncation, assumed.truth.best_horizon));
+    }
+    curves.extend(scenario.alternatives.iter().cloned());
+    let mut out = vec![("assumed".to_string(), assumed)];
+    for (name, decay) in curves {
+        let setup = Setup::new(scenario.with_decay(decay)).map_err(|e| (name.clone(), e))?;
+        out.push((name, setup));
+    }
+    Ok(out)
+}
+
+/// The linear book of reference histories `paths` of one curve, in path
+/// order (the stress test judges holdings by the linear book alone).
+pub fn curve_books(
+    setup: &Setup,
+    paths: Range<usize>,
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> Vec<Vec<BookSums>> {
+    reference_books(setup, paths, false, threads, progress).into_iter().map(|b| b.linear).collect()
+}
+
+/// One curve's truth from the linear book of every reference history
+/// (path order): net IR at the scenario's cost from the pooled sums, its
+/// error from the spread of per-history IRs (as the portfolio truth's).
+pub fn curve_truth(name: &str, setup: &Setup, per_path: &[Vec<BookSums>]) -> CurveTruth {
+    let s = &setup.scenario;
+    let pooled = pool(s.horizons, per_path);
+    let (net_ir, net_ir_se) = net_ir_at(&pooled, per_path, s.portfolio.cost_bps * 1e-4, s.periods_per_year);
+    CurveTruth {
+        name: name.into(),
+        lagged_ic: setup.truth.lagged_ic.clone(),
+        best_horizon: setup.truth.best_horizon,
+        horizon_ic: setup.truth.horizon_ic.clone(),
+        horizon_ic_integration_se: setup.truth.horizon_ic_integration_se,
+        best_holding: argmax1(&net_ir),
+        net_ir,
+        net_ir_se,
+    }
+}
+
+/// The regret matrices of `curves` (the assumed one first).
+fn finish(scenario: &Scenario, curves: Vec<CurveTruth>) -> StressResult {
+    let h: Vec<&[f64]> = curves.iter().map(|c| c.horizon_ic.as_slice()).collect();
+    let n: Vec<&[f64]> = curves.iter().map(|c| c.net_ir.as_slice()).collect();
+    StressResult {
+        horizon: regret_matrix("horizon", &h),
+        holding: regret_matrix("holding", &n),
+        cost_bps: scenario.portfolio.cost_bps,
+        curves,
+    }
+}
+
+/// The linear books of reference histories `paths` of every curve
+/// (`[curve][path − paths.start]`); `progress` counts curves done.
+pub fn books(
+    curves: &[(String, Setup)],
+    paths: Range<usize>,
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> Vec<Vec<Vec<BookSums>>> {
+    let mut out = Vec::with_capacity(curves.len());
+    for (i, (_, setup)) in curves.iter().enumerate() {
+        out.push(curve_books(setup, paths.clone(), threads, &|_| {}));
+        progress(i + 1);
+    }
+    out
+}
+
+/// The stress test from every curve's books over all reference histories.
+pub fn from_books(scenario: &Scenario, curves: &[(String, Setup)], books: &[Vec<Vec<BookSums>>]) -> StressResult {
+    let truths = curves.iter().zip(books).map(|((name, setup), b)| curve_truth(name, setup, b)).collect();
+    finish(scenario, truths)
+}
+
 /// Runs the stress test: every curve's truth, the portfolio truth by a
 /// reference simulation per curve (`progress` counts curves done).
 ///
@@ -120,36 +206,9 @@ pub fn run(
     threads: usize,
     progress: &(dyn Fn(usize) + Sync),
 ) -> Result<StressResult, (String, ScenarioError)> {
-    let assumed = Setup::new(scenario.clone()).map_err(|e| ("assumed".to_string(), e))?;
-    let mut curves = vec![("assumed".to_string(), scenario.decay.clone())];
-    if !scenario.replace_default_alternatives {
-        curves.extend(default_alternatives(&scenario.decay, scenario.truncation, assumed.truth.best_horizon));
-    }
-    curves.extend(scenario.alternatives.iter().cloned());
-    let mut out = Vec::with_capacity(curves.len());
-    for (i, (name, decay)) in curves.into_iter().enumerate() {
-        let setup = Setup::new(scenario.with_decay(decay)).map_err(|e| (name.clone(), e))?;
-        let p = PortfolioTruth::compute(&setup, threads, &|_| {});
-        out.push(CurveTruth {
-            name,
-            lagged_ic: setup.truth.lagged_ic.clone(),
-            best_horizon: setup.truth.best_horizon,
-            horizon_ic: setup.truth.horizon_ic.clone(),
-            horizon_ic_integration_se: setup.truth.horizon_ic_integration_se,
-            best_holding: p.linear.best_holding,
-            net_ir: p.linear.net_ir,
-            net_ir_se: p.linear.net_ir_se,
-        });
-        progress(i + 1);
-    }
-    let h: Vec<&[f64]> = out.iter().map(|c| c.horizon_ic.as_slice()).collect();
-    let n: Vec<&[f64]> = out.iter().map(|c| c.net_ir.as_slice()).collect();
-    Ok(StressResult {
-        horizon: regret_matrix("horizon", &h),
-        holding: regret_matrix("holding", &n),
-        cost_bps: scenario.portfolio.cost_bps,
-        curves: out,
-    })
+    let curves = curves(scenario)?;
+    let books = books(&curves, 0..scenario.portfolio.reference_paths, threads, progress);
+    Ok(from_books(scenario, &curves, &books))
 }
 
 #[cfg(test)]

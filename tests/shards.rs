@@ -144,6 +144,35 @@ fn parts_that_do_not_make_one_run_are_refused_by_name() {
         let err = String::from_utf8(out.get_output().stderr.clone()).unwrap();
         assert!(err.contains("a shard is K/N with 0 ≤ K < N"), "{err}");
     }
-    let out = lagfold().args(["stress", "weekly-hump", "--shard", "0/2"]).assert().code(2);
-    assert!(String::from_utf8_lossy(&out.get_output().stderr).contains("not split into shards"));
+}
+
+#[test]
+fn a_stress_test_merges_to_the_single_run() {
+    let tmp = tempfile::tempdir().unwrap();
+    let d = tmp.path();
+    let args = ["stress", "weekly-hump", "--assets", "60", "--history", "70", "--cost-bps", "15", "--no-charts"];
+    let mut parts = one_and_shards(&args, 3, d);
+    parts.swap(0, 2);
+    merge(&parts, &d.join("merged")).success();
+    same_files(&d.join("one"), &d.join("merged"), &["stress.json", "stress.csv"]);
+    // A stress part is refused beside a run's, and with a reference history cut out.
+    let run = d.join("run");
+    lagfold()
+        .args(["run", "weekly-hump", "--paths", "6", "--shard", "1/3", "-q", "--out"])
+        .arg(&run)
+        .assert()
+        .success();
+    let refused = |parts: &[PathBuf], needle: &str| {
+        let out = merge(parts, &d.join("m")).code(2);
+        let err = String::from_utf8(out.get_output().stderr.clone()).unwrap();
+        assert!(err.contains(needle), "`{needle}` not in: {err}");
+        assert!(!d.join("m").exists(), "a refused merge writes nothing");
+    };
+    refused(&[parts[0].clone(), run, parts[2].clone()], "is a shard of another run");
+    let mut part: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(parts[1].join("part.json")).unwrap()).unwrap();
+    part["books"][0].as_array_mut().unwrap().pop();
+    std::fs::create_dir(d.join("cut")).unwrap();
+    std::fs::write(d.join("cut/part.json"), serde_json::to_vec(&part).unwrap()).unwrap();
+    refused(&[parts[0].clone(), d.join("cut"), parts[2].clone()], "books do not fit the stress test");
 }

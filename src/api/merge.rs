@@ -1,7 +1,11 @@
 //! Shards' partial results added up into the single run's outputs.
 
 use super::shard::{Job, PART_FORMAT, Part, goal_of};
-use super::{Error, Files, PlanOptions, PlanOutcome, Progress, StudyOptions, StudyOutcome, SweepOutcome};
+use super::{
+    Error, Files, PlanOptions, PlanOutcome, Progress, StressOptions, StressOutcome, StudyOptions, StudyOutcome,
+    SweepOutcome,
+};
+use crate::portfolio::BookSums;
 use crate::portfolio::PortfolioTruth;
 use crate::report;
 use crate::scenario::sweep::Point;
@@ -17,6 +21,8 @@ pub enum Merged {
     Sweep(SweepOutcome),
     /// A plan.
     Plan(Box<PlanOutcome>),
+    /// A stress test.
+    Stress(Box<StressOutcome>),
 }
 
 impl super::Outcome for Merged {
@@ -25,6 +31,7 @@ impl super::Outcome for Merged {
             Merged::Study(o) => o.files(draw_charts, made),
             Merged::Sweep(o) => o.files(draw_charts, made),
             Merged::Plan(o) => o.files(draw_charts, made),
+            Merged::Stress(o) => o.files(draw_charts, made),
         }
     }
 
@@ -33,6 +40,7 @@ impl super::Outcome for Merged {
             Merged::Study(o) => o.terminal(),
             Merged::Sweep(o) => o.terminal(),
             Merged::Plan(o) => o.terminal(),
+            Merged::Stress(o) => o.terminal(),
         }
     }
 }
@@ -64,16 +72,22 @@ fn read(name: &str, bytes: &[u8]) -> Result<Part, Error> {
 fn describe(job: &Job) -> String {
     let one = |s: &ScenarioRecord| format!("scenario `{}`, seed {}, {} paths", s.name, s.raw.seed, s.raw.paths);
     match job {
-        Job::Run { scenario, .. } | Job::Plan { scenario, .. } => format!("{} of {}", job.command(), one(scenario)),
+        Job::Run { scenario, .. } | Job::Plan { scenario, .. } | Job::Stress { scenario, .. } => {
+            format!("{} of {}", job.command(), one(scenario))
+        }
         Job::Sweep { points, .. } => {
             format!("sweep of {} points, {}", points.len(), points.first().map_or(String::new(), |(_, s)| one(s)))
         }
     }
 }
 
+/// What the parts hold together: summed tallies, and a stress test's books
+/// put end to end in shard order (`[curve][path]`).
+type Combined = (Job, Vec<StudyTally>, Vec<Vec<Vec<BookSums>>>);
+
 /// Checks that `parts` (with their file names) are every shard of one run,
 /// each once, and adds their tallies.
-fn combine(parts: &[(String, Part)]) -> Result<(Job, Vec<StudyTally>), Error> {
+fn combine(parts: &[(String, Part)]) -> Result<Combined, Error> {
     let (first_name, first) = parts.first().ok_or_else(|| Error::input("merge: no parts given"))?;
     let job_text = |p: &Part| serde_json::to_string(&p.job).unwrap_or_default();
     let first_job = job_text(first);
@@ -96,6 +110,7 @@ fn combine(parts: &[(String, Part)]) -> Result<(Job, Vec<StudyTally>), Error> {
         }
         // Shaped as the first part's (and whole), or the finish would index past them.
         let same = p.tallies.len() == first.tallies.len()
+            && p.books.len() == first.books.len()
             && p.tallies.iter().zip(&first.tallies).all(|(a, b)| {
                 a.net.len() == b.net.len()
                     && a.rank_lagged.is_some() == b.rank_lagged.is_some()
@@ -130,7 +145,11 @@ fn combine(parts: &[(String, Part)]) -> Result<(Job, Vec<StudyTally>), Error> {
     for (_, p) in &parts[1..] {
         tallies.iter_mut().zip(&p.tallies).for_each(|(a, b)| a.merge(b));
     }
-    Ok((first.job.clone(), tallies))
+    let mut in_order: Vec<&Part> = parts.iter().map(|(_, p)| p).collect();
+    in_order.sort_by_key(|p| p.shard.index);
+    let books =
+        (0..first.books.len()).map(|c| in_order.iter().flat_map(|p| p.books[c].iter().cloned()).collect()).collect();
+    Ok((first.job.clone(), tallies, books))
 }
 
 fn scenario(r: &ScenarioRecord, origin: &str) -> Result<Scenario, Error> {
@@ -146,7 +165,7 @@ fn scenario(r: &ScenarioRecord, origin: &str) -> Result<Scenario, Error> {
 /// a shard missing or given twice (each named).
 pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progress) -> Result<Merged, Error> {
     let parts = parts.iter().map(|(n, b)| Ok((n.clone(), read(n, b)?))).collect::<Result<Vec<_>, Error>>()?;
-    let (job, tallies) = combine(&parts)?;
+    let (job, tallies, books) = combine(&parts)?;
     let threads = super::threads_or_all(threads);
     let command = job.command();
     // A part's tallies must fit the job they claim (lags and count), or the
@@ -198,6 +217,23 @@ pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progres
             let (setup, histories) = super::plan::prepare(&scenario(&r, &origin)?, &origin, &o)?;
             fit(setup.scenario.horizons, histories.len())?;
             Merged::Plan(Box::new(super::plan::from_tallies(setup, &histories, o.goal, &tallies, threads, progress)))
+        }
+        Job::Stress { origin, scenario: r, cost_bps } => {
+            let o = StressOptions { cost_bps, threads };
+            let (scenario, curves) = super::stress::prepare(&scenario(&r, &origin)?, &origin, &o)?;
+            let (paths, l) = (scenario.portfolio.reference_paths, scenario.horizons);
+            let whole = books.len() == curves.len()
+                && books
+                    .iter()
+                    .all(|c| c.len() == paths && c.iter().all(|h| h.len() == l && h.iter().all(|s| s.n > 0)));
+            if !whole || !tallies.is_empty() {
+                return Err(Error::Input(format!(
+                    "{}: the parts' books do not fit the stress test they record; were the files altered?",
+                    parts[0].0
+                )));
+            }
+            let result = crate::stress::from_books(&scenario, &curves, &books);
+            Merged::Stress(Box::new(StressOutcome { scenario, result }))
         }
     })
 }

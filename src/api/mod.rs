@@ -13,7 +13,7 @@
 //! | [`sweep()`] | the grid points of a sweep file | [`SweepOutcome`] |
 //! | [`simulate_panel`] | a scenario and a path index | [`SimulatedPanel`] |
 //! | [`measure()`] | a panel (file or columns in memory) | [`MeasureOutcome`] |
-//! | [`study_shard`], [`sweep_shard`], [`plan_shard`] | as above, and one [`Shard`] of the paths | [`Part`] |
+//! | [`study_shard`], [`sweep_shard`], [`plan_shard`], [`stress_shard`] | as above, and one [`Shard`] of the paths | [`Part`] |
 //! | [`merge()`] | every shard's [`Part`] | [`Merged`]: the single run's outcome |
 
 mod measure;
@@ -35,7 +35,7 @@ pub use merge::{Merged, merge};
 pub use panel::{SimulatedPanel, simulate_panel};
 pub use plan::{PlanOptions, PlanOutcome, plan};
 pub use scenario::{load_scenario, scenario_from_json, scenario_from_toml, scenario_text};
-pub use shard::{Job, MAX_SHARDS, PART_FILE, Part, Shard, plan_shard, study_shard, sweep_shard};
+pub use shard::{Job, MAX_SHARDS, PART_FILE, Part, Shard, plan_shard, stress_shard, study_shard, sweep_shard};
 pub use stress::{StressOptions, StressOutcome, stress};
 pub use study::{HorizonOutcome, MAX_COST_LEVELS, StudyOptions, StudyOutcome, study, study_horizons};
 pub use sweep::{SweepOutcome, sweep};

@@ -1,14 +1,19 @@
 //! One run split over machines: a shard simulates one contiguous block of
 //! the paths of a run, sweep or plan and writes their tallies as a partial
-//! result (`part.json`); [`merge`](super::merge()) adds the parts and writes
+//! result (`part.json`) — or, for a stress test, one block of every curve's
+//! reference histories and their books; [`merge`](super::merge()) adds the parts and writes
 //! what the single run would have. Tallies merge exactly
 //! ([`crate::tally`]) and each path's stream depends only on the seed and its
 //! index, so the merged outputs are the single run's, byte for byte.
 //!
-//! A shard runs no reference simulation: the merge runs it once, since the
-//! truth it gives does not depend on the paths.
+//! A shard of a run, sweep or plan runs no reference simulation: the merge
+//! runs it once, since the truth it gives does not depend on the paths. A
+//! stress test is all reference simulation: its shards split the reference
+//! histories, and the merge puts their books end to end in path order and
+//! pools them as the single run does.
 
-use super::{Error, Files, Goal, PlanOptions, Progress, Scenario, StudyOptions};
+use super::{Error, Files, Goal, PlanOptions, Progress, Scenario, StressOptions, StudyOptions};
+use crate::portfolio::BookSums;
 use crate::report;
 use crate::scenario::ScenarioRecord;
 use crate::scenario::sweep::Point;
@@ -19,7 +24,7 @@ use std::ops::Range;
 /// The name of a shard's partial result in its output folder.
 pub const PART_FILE: &str = "part.json";
 /// Version of the partial result's layout.
-pub(super) const PART_FORMAT: u32 = 1;
+pub(super) const PART_FORMAT: u32 = 2;
 /// Most shards one run splits into.
 pub const MAX_SHARDS: usize = 10_000;
 
@@ -98,6 +103,15 @@ pub enum Job {
         /// One `--cost-bps` level, if given.
         cost_bps: Option<f64>,
     },
+    /// `lagfold stress`.
+    Stress {
+        /// Where the scenario came from (for messages).
+        origin: String,
+        /// The scenario, every override applied.
+        scenario: ScenarioRecord,
+        /// One `--cost-bps` level, if given.
+        cost_bps: Option<f64>,
+    },
 }
 
 impl Job {
@@ -107,6 +121,7 @@ impl Job {
             Job::Run { .. } => "run",
             Job::Sweep { .. } => "sweep",
             Job::Plan { .. } => "plan",
+            Job::Stress { .. } => "stress",
         }
     }
 }
@@ -124,6 +139,10 @@ pub struct Part {
     pub job: Job,
     /// The tallies of its paths (per command: see [`super::merge()`]).
     pub tallies: Vec<StudyTally>,
+    /// A stress test's linear books of its block of reference histories,
+    /// `[curve][path][holding − 1]` (empty for other commands).
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub books: Vec<Vec<Vec<BookSums>>>,
 }
 
 impl super::Outcome for Part {
@@ -134,9 +153,12 @@ impl super::Outcome for Part {
     }
 
     fn terminal(&self) -> String {
-        let paths: u64 = self.tallies.iter().map(|t| t.paths).sum();
+        let done = match self.books.first() {
+            Some(b) => format!("{} reference histories of each of {} curves simulated", b.len(), self.books.len()),
+            None => format!("{} paths simulated", self.tallies.iter().map(|t| t.paths).sum::<u64>()),
+        };
         format!(
-            "shard {} of lagfold {}: {paths} paths simulated; merge every shard's folder with `lagfold merge`\n",
+            "shard {} of lagfold {}: {done}; merge every shard's folder with `lagfold merge`\n",
             self.shard,
             self.job.command()
         )
@@ -148,7 +170,7 @@ fn record(s: &Scenario) -> Result<ScenarioRecord, Error> {
 }
 
 fn part(shard: Shard, job: Job, tallies: Vec<StudyTally>) -> Part {
-    Part { format: PART_FORMAT, version: env!("CARGO_PKG_VERSION").into(), shard, job, tallies }
+    Part { format: PART_FORMAT, version: env!("CARGO_PKG_VERSION").into(), shard, job, tallies, books: vec![] }
 }
 
 /// Shard `shard` of [`study()`](super::study()).
@@ -228,6 +250,26 @@ pub fn plan_shard(
         cost_bps: o.cost_bps,
     };
     Ok(part(shard, job, tallies))
+}
+
+/// Shard `shard` of [`stress()`](super::stress()): its block of every
+/// curve's reference histories.
+///
+/// # Errors
+/// As [`stress()`](super::stress()).
+pub fn stress_shard(
+    scenario: &Scenario,
+    origin: &str,
+    o: &StressOptions,
+    shard: Shard,
+    progress: &dyn Progress,
+) -> Result<Part, Error> {
+    let (priced, curves) = super::stress::prepare(scenario, origin, o)?;
+    let threads = super::threads_or_all(o.threads);
+    let block = shard.block(priced.portfolio.reference_paths);
+    let books = super::stress::books(&priced, &curves, block, threads, progress);
+    let job = Job::Stress { origin: origin.into(), scenario: record(scenario)?, cost_bps: o.cost_bps };
+    Ok(Part { books, ..part(shard, job, vec![]) })
 }
 
 /// The goal a plan's part records.

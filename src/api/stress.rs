@@ -2,8 +2,11 @@
 //! curve is true.
 
 use super::{Error, Files, Progress, Scenario, at_cost, charts, check_costs, finite, stage};
+use crate::portfolio::BookSums;
 use crate::report;
+use crate::simulate::Setup;
 use crate::stress::{self, StressResult};
+use std::ops::Range;
 
 /// How to run a stress test.
 #[derive(Debug, Clone, Default)]
@@ -29,6 +32,41 @@ pub fn curve_count(s: &Scenario) -> usize {
     1 + if s.replace_default_alternatives { 0 } else { 4 } + s.alternatives.len()
 }
 
+/// The scenario at the cost used and its curves' set-ups (the assumed one
+/// first), checked.
+///
+/// # Errors
+/// As [`stress()`].
+pub(super) fn prepare(
+    scenario: &Scenario,
+    origin: &str,
+    o: &StressOptions,
+) -> Result<(Scenario, Vec<(String, Setup)>), Error> {
+    check_costs(o.cost_bps.as_slice(), 1, "`stress` (one cost for every curve)")?;
+    let scenario = at_cost(scenario, o.cost_bps, origin)?;
+    if curve_count(&scenario) == 1 {
+        return Err(Error::Input(format!(
+            "{origin}: `stress.replace_defaults = true` with no `[[stress.alternatives]]` leaves nothing to stress \
+             the assumed curve against: add at least one alternative or keep the defaults"
+        )));
+    }
+    let curves =
+        stress::curves(&scenario).map_err(|(name, e)| Error::Input(format!("{origin}: curve `{name}`: {e}")))?;
+    Ok((scenario, curves))
+}
+
+/// The linear books of reference histories `paths` of every curve.
+pub(super) fn books(
+    scenario: &Scenario,
+    curves: &[(String, Setup)],
+    paths: Range<usize>,
+    threads: usize,
+    progress: &dyn Progress,
+) -> Vec<Vec<Vec<BookSums>>> {
+    super::note_long(progress, curves.len() * paths.len(), scenario, threads);
+    stage(progress, "curves", curves.len(), |p| stress::books(curves, paths, threads, p))
+}
+
 /// The stress test of `scenario` (`origin` names it in messages).
 ///
 /// # Errors
@@ -40,19 +78,10 @@ pub fn stress(
     o: &StressOptions,
     progress: &dyn Progress,
 ) -> Result<StressOutcome, Error> {
-    check_costs(o.cost_bps.as_slice(), 1, "`stress` (one cost for every curve)")?;
-    let scenario = at_cost(scenario, o.cost_bps, origin)?;
-    let n = curve_count(&scenario);
-    if n == 1 {
-        return Err(Error::Input(format!(
-            "{origin}: `stress.replace_defaults = true` with no `[[stress.alternatives]]` leaves nothing to stress \
-             the assumed curve against: add at least one alternative or keep the defaults"
-        )));
-    }
+    let (scenario, curves) = prepare(scenario, origin, o)?;
     let threads = super::threads_or_all(o.threads);
-    super::note_long(progress, n * scenario.portfolio.reference_paths, &scenario, threads);
-    let result = stage(progress, "curves", n, |p| stress::run(&scenario, threads, p))
-        .map_err(|(name, e)| Error::Input(format!("{origin}: curve `{name}`: {e}")))?;
+    let books = books(&scenario, &curves, 0..scenario.portfolio.reference_paths, threads, progress);
+    let result = stress::from_books(&scenario, &curves, &books);
     Ok(StressOutcome { scenario, result })
 }
 

@@ -45,8 +45,9 @@ pub struct StudyArgs {
     /// Skip the charts (the report then has no pictures).
     #[arg(long)]
     pub no_charts: bool,
-    /// Run only shard K of N (0 ≤ K < N), a contiguous block of the paths,
-    /// and write its partial result (part.json); `lagfold merge` adds the
+    /// Run only shard K of N (0 ≤ K < N), a contiguous block of the paths
+    /// (for `stress`, of every curve's reference histories), and write its
+    /// partial result (part.json); `lagfold merge` adds the
     /// shards' folders into the single run's outputs, byte for byte.
     #[arg(long, value_name = "K/N", value_parser = api::Shard::parse)]
     pub shard: Option<api::Shard>,

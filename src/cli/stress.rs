@@ -21,14 +21,14 @@ pub struct StressArgs {
 pub fn run(a: &StressArgs) -> Result<(), Failure> {
     let (scenario, origin) = read_scenario(&a.scenario, &a.study.overrides())?;
     a.study.costs(1, "`stress` (one cost for every curve)")?;
-    if a.study.shard.is_some() {
-        return Err(Failure::input(
-            "`stress` is not split into shards: its work is one reference simulation per curve; run it in one piece",
-        ));
-    }
     let out_dir = a.study.out_dir(&format!("{}-stress", scenario.name));
     let out = report::OutDir::claim(&out_dir).map_err(Failure::input)?;
     let options = api::StressOptions { cost_bps: a.study.one_cost(), threads: threads(&a.study) };
-    let outcome = api::stress(&scenario, &origin, &options, &progress::Bars::new(a.study.quiet))?;
+    let bars = progress::Bars::new(a.study.quiet);
+    if let Some(shard) = a.study.shard {
+        let part = api::stress_shard(&scenario, &origin, &options, shard, &bars)?;
+        return super::deliver(&part, out, &out_dir, true, a.study.quiet);
+    }
+    let outcome = api::stress(&scenario, &origin, &options, &bars)?;
     super::deliver(&outcome, out, &out_dir, a.study.no_charts, a.study.quiet)
 }

@@ -1,10 +1,10 @@
 //! Running sums of a book's per-period gross return and traded notional, from
 //! which the net mean, volatility and information ratio follow at any cost.
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 /// Sums over periods of gross return `g` and traded notional `τ`.
-#[derive(Debug, Clone, Copy, Default, PartialEq, Serialize)]
+#[derive(Debug, Clone, Copy, Default, PartialEq, Serialize, Deserialize)]
 pub struct BookSums {
     /// Periods.
     pub n: u64,

@@ -21,6 +21,7 @@ use crate::simulate::{PathWorker, Setup, run_in_order};
 use crate::stats::Moments;
 use crate::stats::{argmax1, near_set};
 use serde::Serialize;
+use std::ops::Range;
 
 /// Fixed seed of the reference simulation.
 const REFERENCE_SEED: u64 = 0x7265_6665_7265_6e63;
@@ -139,29 +140,54 @@ fn book_truth(pooled: &[BookSums], per_path: &[Vec<BookSums>], c: f64, ppy: f64,
     }
 }
 
+/// The books of reference histories `paths` (a block of
+/// `0..reference_paths`), in path order, on `threads` threads; the quantile
+/// book too when `quantile`. Each history's stream depends only on its index,
+/// so blocks run apart and put end to end are the whole run's.
+pub fn reference_books(
+    setup: &Setup,
+    paths: Range<usize>,
+    quantile: bool,
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> Vec<PathBooks> {
+    let s = &setup.scenario;
+    let (l, spec) = (s.horizons, s.portfolio);
+    let q = quantile.then_some(spec.quantiles);
+    let mut books: Vec<PathBooks> = Vec::with_capacity(paths.len());
+    run_in_order(
+        threads,
+        paths,
+        || (PathWorker::new(l, false), BookBuilder::default()),
+        |(w, builder), p| {
+            w.simulate_and_measure(setup, REFERENCE_SEED, p);
+            builder.build(w.panel(), w.products(), s.residual_vol, q)
+        },
+        |b| books.push(b),
+        progress,
+    );
+    books
+}
+
+/// Per-holding sums pooled over histories, added in path order.
+pub fn pool<'a>(l: usize, per_path: impl IntoIterator<Item = &'a Vec<BookSums>>) -> Vec<BookSums> {
+    let mut sums = vec![BookSums::default(); l];
+    per_path.into_iter().for_each(|b| sums.iter_mut().zip(b).for_each(|(a, x)| a.merge(x)));
+    sums
+}
+
 impl PortfolioTruth {
     /// Runs the reference simulation on `threads` threads.
     pub fn compute(setup: &Setup, threads: usize, progress: &(dyn Fn(usize) + Sync)) -> Self {
+        let paths = 0..setup.scenario.portfolio.reference_paths;
+        Self::from_books(setup, &reference_books(setup, paths, true, threads, progress))
+    }
+
+    /// The truth from every reference history's books (both books, path order).
+    pub fn from_books(setup: &Setup, per_path: &[PathBooks]) -> Self {
         let s = &setup.scenario;
         let (l, spec) = (s.horizons, s.portfolio);
-        let mut per_path: Vec<PathBooks> = Vec::with_capacity(spec.reference_paths);
-        run_in_order(
-            threads,
-            0..spec.reference_paths,
-            || (PathWorker::new(l, false), BookBuilder::default()),
-            |(w, books), p| {
-                w.simulate_and_measure(setup, REFERENCE_SEED, p);
-                books.build(w.panel(), w.products(), s.residual_vol, Some(spec.quantiles))
-            },
-            |b| per_path.push(b),
-            progress,
-        );
-        let pool = |pick: fn(&PathBooks) -> &Vec<BookSums>| {
-            let mut sums = vec![BookSums::default(); l];
-            per_path.iter().for_each(|b| sums.iter_mut().zip(pick(b)).for_each(|(a, x)| a.merge(x)));
-            sums
-        };
-        let (lin, qua) = (pool(|b| &b.linear), pool(|b| &b.quantile));
+        let (lin, qua) = (pool(l, per_path.iter().map(|b| &b.linear)), pool(l, per_path.iter().map(|b| &b.quantile)));
         let lin_paths: Vec<Vec<BookSums>> = per_path.iter().map(|b| b.linear.clone()).collect();
         let qua_paths: Vec<Vec<BookSums>> = per_path.iter().map(|b| b.quantile.clone()).collect();
         let c = spec.cost_bps * 1e-4;
