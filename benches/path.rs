@@ -16,7 +16,9 @@ use lagfold::measure::Measurement;
 use lagfold::portfolio::BookBuilder;
 use lagfold::rng::{fill_normal, path_rng};
 use lagfold::simulate::Setup;
+use lagfold::student_t::StudentTZiggurat;
 use lagfold::study::Worker;
+use rand::RngExt;
 use std::hint::black_box;
 
 /// Seconds per path of `benches/numpy_path.py` (the same path in plain NumPy,
@@ -128,8 +130,39 @@ fn ratio_report(setup: &Setup) {
     );
 }
 
+/// Student-t draws by the ziggurat against normal draws and against
+/// rand_distr's normal-over-root-gamma `StudentT`, 120,000 of each.
+fn student_t_report() {
+    let dof = 6.0;
+    let law = StudentTZiggurat::new(dof);
+    let reference = rand_distr::StudentT::new(dof).expect("dof > 0");
+    let (mut r1, mut r2) = (path_rng(1, 0), path_rng(2, 0));
+    let (mut a, mut b) = (vec![0.0; 120_000], vec![0.0; 120_000]);
+    let (t, normal) = common::interleaved(
+        20,
+        || law.fill(&mut r1, 1.0, black_box(&mut a)),
+        || fill_normal(&mut r2, black_box(&mut b)),
+    );
+    let (_, gamma) = common::interleaved(
+        20,
+        || law.fill(&mut r1, 1.0, black_box(&mut a)),
+        || b.iter_mut().for_each(|x| *x = r2.sample(reference)),
+    );
+    let ns = |s: f64| s * 1e9 / 120_000.0;
+    println!(
+        "ratio  Student t draw (ziggurat, ν = {dof}) / normal draw = {:.2}  ({:.2} ns vs {:.2} ns; rand_distr's \
+         StudentT {:.2} ns, {:.1}× slower than the ziggurat)",
+        t / normal,
+        ns(t),
+        ns(normal),
+        ns(gamma),
+        gamma / t
+    );
+}
+
 /// Every preset at the bench's size against the default (exponential) preset.
 fn presets_report(default: &Setup) {
+    student_t_report();
     println!("preset path / exponential default path at N = 1000, T = 120, L = 24 (one thread; target ≤ 1.3)");
     for (name, _) in lagfold::scenario::presets::ALL {
         let setup = common::setup_of(name, 1);

@@ -34,6 +34,7 @@ pub mod truth;
 pub mod generate;
 pub mod rng;
 pub mod simulate;
+pub mod student_t;
 
 // Measurement of any panel, and a user's own.
 pub mod measure;

@@ -79,7 +79,10 @@ fn the_calibrated_scenario_runs_unchanged_and_the_study_can_be_skipped() {
     let tmp = tempfile::tempdir().unwrap();
     let csv = tmp.path().join("p.csv");
     lagfold()
-        .args(["panel", "weekly-hump", "--assets", "200", "--history", "150", "-q", "--out"])
+        // A seed whose short history measures a positive curve, so that a scenario is calibrated
+        // (with the preset's own seed this history measures a negative one since its Student-t
+        // noise is drawn by the ziggurat; seeds 1 to 5 all calibrate).
+        .args(["panel", "weekly-hump", "--assets", "200", "--history", "150", "--seed", "1", "-q", "--out"])
         .arg(&csv)
         .assert()
         .success();
