@@ -27,14 +27,20 @@ pub fn path_rng(seed: u64, path: u64) -> PathRng {
     PathRng::from_seed(bytes)
 }
 
-/// Fills `out` with standard normal draws (ziggurat, rand_distr).
-pub fn fill_normal(rng: &mut PathRng, out: &mut [f64]) {
+/// Fills `out` with `draw(rng)`, one call a value.
+#[inline]
+pub fn fill_with(rng: &mut PathRng, out: &mut [f64], mut draw: impl FnMut(&mut PathRng) -> f64) {
     // A local copy of the state lets it live in registers through the loop.
     let mut local = rng.clone();
     for x in out {
-        *x = local.sample(StandardNormal);
+        *x = draw(&mut local);
     }
     *rng = local;
+}
+
+/// Fills `out` with standard normal draws (ziggurat, rand_distr).
+pub fn fill_normal(rng: &mut PathRng, out: &mut [f64]) {
+    fill_with(rng, out, |r| r.sample(StandardNormal));
 }
 
 #[cfg(test)]

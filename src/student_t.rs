@@ -15,7 +15,7 @@
 //! cheaper than a normal divided by the root of a gamma (rand_distr's
 //! `StudentT`).
 
-use crate::rng::PathRng;
+use crate::rng::{PathRng, fill_with};
 use rand::{Rng, RngExt};
 use rand_distr::Open01;
 use statrs::distribution::{Continuous, ContinuousCDF, StudentsT};
@@ -134,14 +134,9 @@ impl StudentTZiggurat {
         }
     }
 
-    /// Fills `out` with draws scaled by `scale`, keeping the generator's
-    /// state in registers through the loop.
+    /// Fills `out` with draws scaled by `scale`.
     pub fn fill(&self, rng: &mut PathRng, scale: f64, out: &mut [f64]) {
-        let mut local = rng.clone();
-        for x in out {
-            *x = scale * self.sample(&mut local);
-        }
-        *rng = local;
+        fill_with(rng, out, |r| scale * self.sample(r));
     }
 }
 
