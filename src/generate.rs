@@ -49,7 +49,7 @@ enum Noise {
     Normal,
     /// Student t by its ziggurat, times `scale = sqrt((ν−2)/ν)` for unit variance.
     StudentT {
-        law: Box<StudentTZiggurat>,
+        law: StudentTZiggurat,
         scale: f64,
     },
 }
@@ -59,7 +59,7 @@ impl Noise {
         match tails {
             Tails::Normal => Noise::Normal,
             Tails::StudentT { dof } => {
-                Noise::StudentT { law: Box::new(StudentTZiggurat::new(dof)), scale: ((dof - 2.0) / dof).sqrt() }
+                Noise::StudentT { law: StudentTZiggurat::new(dof), scale: ((dof - 2.0) / dof).sqrt() }
             }
         }
     }

@@ -184,7 +184,7 @@ impl PortfolioTruth {
     }
 
     /// The truth from every reference history's books (both books, path order).
-    pub fn from_books(setup: &Setup, per_path: &[PathBooks]) -> Self {
+    fn from_books(setup: &Setup, per_path: &[PathBooks]) -> Self {
         let s = &setup.scenario;
         let (l, spec) = (s.horizons, s.portfolio);
         let (lin, qua) = (pool(l, per_path.iter().map(|b| &b.linear)), pool(l, per_path.iter().map(|b| &b.quantile)));

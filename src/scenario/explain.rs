@@ -172,7 +172,7 @@ pub fn allowed_words(path: &str) -> Option<&'static str> {
         "decay.zero_at" => "a number > 1",
         "decay.length" => "a whole number, at least 1",
         "decay.values" => "a list of numbers inside (-1, 1), lag 1 first",
-        "tails.dof" => "a number > 2",
+        "tails.dof" => "a number > 2 and ≤ 1e6",
         "portfolio.cost_bps" => "a number in [0, 10000) basis points",
         "portfolio.target_vol" => "a number above 0 and at most 1 (an annual volatility: 0.04 = 4 %)",
         "portfolio.quantiles" => "a whole number, at least 2",

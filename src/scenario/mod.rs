@@ -45,6 +45,9 @@ pub const HISTORY_NOTE: &str = "each horizon needs two dates and the longest hol
 pub const MAX_REFERENCE_PATHS: usize = 100_000;
 /// Largest residual volatility per period (returns are decimals).
 pub const MAX_RESIDUAL_VOL: f64 = 10.0;
+/// Most Student-t degrees of freedom: beyond, the law is normal to the
+/// precision of the t tail area the ziggurat's tables are built from.
+pub const MAX_DOF: f64 = 1e6;
 /// Largest `periods_per_year`.
 pub const MAX_PERIODS_PER_YEAR: f64 = 1_000_000.0;
 
@@ -54,7 +57,7 @@ pub const MAX_PERIODS_PER_YEAR: f64 = 1_000_000.0;
 pub enum Tails {
     /// Standard normal.
     Normal,
-    /// Student-t with `dof > 2` degrees of freedom, scaled to unit variance.
+    /// Student-t with `2 < dof ≤ MAX_DOF` degrees of freedom, scaled to unit variance.
     StudentT {
         /// Degrees of freedom ν.
         dof: f64,
@@ -342,8 +345,12 @@ impl Scenario {
         let tails = match raw.tails.dof()? {
             None => Tails::Normal,
             Some(dof) => {
-                if !(dof.is_finite() && dof > 2.0) {
-                    return Err(out_of_range("tails.dof", dof, "> 2 (finite variance)"));
+                if !(dof > 2.0 && dof <= MAX_DOF) {
+                    return Err(out_of_range(
+                        "tails.dof",
+                        dof,
+                        "> 2 (finite variance) and ≤ 1e6 (beyond, the law is normal: use family = \"normal\")",
+                    ));
                 }
                 Tails::StudentT { dof }
             }
