@@ -124,7 +124,7 @@ const TAPS: [usize; 5] = [0, 2, 4, 8, 16];
 /// The cheapest exponential sum (taps plus twice the terms) standing in for
 /// `model`'s loadings within [`IC_TOLERANCE`] on lags and horizons `1..=l`,
 /// or `None` when the exact kernel is already a recursion, is no longer than
-/// the taps would be, or no sum of up to [`MAX_TERMS`] terms is close enough.
+/// the taps would be, or no sum of up to `MAX_TERMS` (12) terms is close enough.
 pub fn fit(model: &Model, l: usize) -> Option<ExponentialSum> {
     if !matches!(model.kernel(), crate::model::Kernel::Convolution) {
         return None;

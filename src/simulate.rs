@@ -93,7 +93,7 @@ const CHUNK: usize = 128;
 
 /// Runs `run(worker, p)` for every path `p` of `paths` on `threads` threads
 /// and hands the results to `sink` in path order; `progress` hears how many
-/// are done. Paths go in chunks of [`CHUNK`], each
+/// are done. Paths go in chunks of `CHUNK`, each
 /// cut into `2 × threads` contiguous runs, one per long-lived worker, so the
 /// order of results never depends on scheduling.
 pub fn run_in_order<W: Send, T: Send>(

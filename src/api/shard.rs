@@ -129,7 +129,7 @@ impl Job {
 /// A shard's partial result.
 #[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct Part {
-    /// Layout version ([`PART_FORMAT`]).
+    /// Layout version (this build's `PART_FORMAT`).
     pub format: u32,
     /// The lagfold version that wrote it.
     pub version: String,

@@ -37,7 +37,7 @@ impl Made {
 }
 
 /// `lagfold` and its arguments as a shell would take them, without the
-/// options in [`NOT_RECORDED`].
+/// options in `NOT_RECORDED`.
 pub fn command_line(args: &[String]) -> String {
     let mut kept = vec!["lagfold".to_string()];
     let mut i = 0;
