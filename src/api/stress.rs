@@ -26,12 +26,6 @@ pub struct StressOutcome {
     pub result: StressResult,
 }
 
-/// Curves a stress test of `s` compares: the assumed one, the four default
-/// alternatives unless replaced, and the scenario's own.
-pub fn curve_count(s: &Scenario) -> usize {
-    1 + if s.replace_default_alternatives { 0 } else { 4 } + s.alternatives.len()
-}
-
 /// The scenario at the cost used and its curves' set-ups (the assumed one
 /// first), checked.
 ///
@@ -44,7 +38,7 @@ pub(super) fn prepare(
 ) -> Result<(Scenario, Vec<(String, Setup)>), Error> {
     check_costs(o.cost_bps.as_slice(), 1, "`stress` (one cost for every curve)")?;
     let scenario = at_cost(scenario, o.cost_bps, origin)?;
-    if curve_count(&scenario) == 1 {
+    if scenario.replace_default_alternatives && scenario.alternatives.is_empty() {
         return Err(Error::Input(format!(
             "{origin}: `stress.replace_defaults = true` with no `[[stress.alternatives]]` leaves nothing to stress \
              the assumed curve against: add at least one alternative or keep the defaults"
