@@ -152,6 +152,27 @@ fn combine(parts: &[(String, Part)]) -> Result<Combined, Error> {
     Ok((first.job.clone(), tallies, books))
 }
 
+/// Checks that every part holds exactly its shard's block of paths: tally
+/// `i` of a part counts `block(paths_of(i))` paths, and each of a stress
+/// test's curves holds that many histories. The totals alone would let two
+/// hand-edited parts trade paths unseen.
+fn blocks_fit(parts: &[(String, Part)], paths_of: impl Fn(usize) -> usize) -> Result<(), Error> {
+    for (name, p) in parts {
+        let want = |i: usize| p.shard.block(paths_of(i)).len();
+        let held = p.tallies.iter().enumerate().map(|(i, t)| (i, t.paths as usize));
+        let held = held.chain(p.books.iter().enumerate().map(|(i, c)| (i, c.len())));
+        if let Some((i, n)) = held.into_iter().find(|&(i, n)| n != want(i)) {
+            return Err(Error::Input(format!(
+                "{name}: shard {} should hold {} of {} paths, it holds {n}; were the files altered?",
+                p.shard,
+                want(i),
+                paths_of(i)
+            )));
+        }
+    }
+    Ok(())
+}
+
 fn scenario(r: &ScenarioRecord, origin: &str) -> Result<Scenario, Error> {
     Scenario::from_record(r).map_err(|e| Error::Input(format!("{origin}: {e}")))
 }
@@ -186,6 +207,8 @@ pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progres
             let (setup, sweep) = super::study::prepare(&scenario(&r, &origin)?, &origin, &o)?;
             let longer = o.more_history && study::more_history_setup(&setup).is_some();
             fit(setup.scenario.horizons, 1 + usize::from(longer))?;
+            let longer_paths = study::more_history_setup(&setup).map_or(0, |l| l.scenario.paths);
+            blocks_fit(&parts, |i| if i == 0 { setup.scenario.paths } else { longer_paths })?;
             if tallies[0].net.len() != 1 + sweep.len() {
                 return Err(Error::Input(format!("{}: the tallies do not hold the run's cost levels", parts[0].0)));
             }
@@ -201,6 +224,7 @@ pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progres
             {
                 return Err(Error::Input(format!("{}: the tallies do not fit the sweep's points", parts[0].0)));
             }
+            blocks_fit(&parts, |i| points[i].scenario.paths)?;
             progress.begin("reference", points.len());
             let mut rows = Vec::with_capacity(points.len());
             for (i, (p, tally)) in points.iter().zip(&tallies).enumerate() {
@@ -216,6 +240,7 @@ pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progres
             let o = PlanOptions { histories, goal: goal_of(&goal)?, cost_bps, threads };
             let (setup, histories) = super::plan::prepare(&scenario(&r, &origin)?, &origin, &o)?;
             fit(setup.scenario.horizons, histories.len())?;
+            blocks_fit(&parts, |_| setup.scenario.paths)?;
             Merged::Plan(Box::new(super::plan::from_tallies(setup, &histories, o.goal, &tallies, threads, progress)))
         }
         Job::Stress { origin, scenario: r, cost_bps } => {
@@ -232,6 +257,7 @@ pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progres
                     parts[0].0
                 )));
             }
+            blocks_fit(&parts, |_| paths)?;
             let result = crate::stress::from_books(&scenario, &curves, &books);
             Merged::Stress(Box::new(StressOutcome { scenario, result }))
         }
