@@ -160,9 +160,77 @@ fn student_t_report() {
     );
 }
 
+/// The band of products `⟨a_t, b_{t+d}⟩` one measured path needs (`T = 120`
+/// dates of `N = 1000` assets, `L = 24` lags), by `banded_products` (fixed
+/// order on every CPU) against a general matrix multiply of blocks of 16 rows
+/// (`matrixmultiply::dgemm`, which picks a kernel by CPU and computes the
+/// products off the band too): the way it was done before.
+fn banded_report() {
+    let (n, t, w) = (1000, 120, 24);
+    let mut rng = path_rng(3, 0);
+    let (mut a, mut b) = (vec![0.0; n * t], vec![0.0; n * t]);
+    fill_normal(&mut rng, &mut a);
+    fill_normal(&mut rng, &mut b);
+    let (mut one, mut two, mut tmp) = (Vec::new(), Vec::new(), Vec::new());
+    let (ours, gemm) = common::interleaved(
+        20,
+        || lagfold::measure::banded_products(black_box(&a), &b, n, w, &mut one),
+        || gemm_band(black_box(&a), &b, n, w, &mut tmp, &mut two),
+    );
+    let worst = one.iter().zip(&two).map(|(x, y)| (x - y).abs()).fold(0.0, f64::max);
+    println!(
+        "ratio  banded products (fixed order) / matrix-multiply blocks = {:.2}  ({:.0} µs vs {:.0} µs; largest \
+         difference {worst:.1e})",
+        ours / gemm,
+        ours * 1e6,
+        gemm * 1e6
+    );
+}
+
+/// The band through `dgemm` on blocks of 16 rows of `a` (the former way).
+fn gemm_band(a: &[f64], b: &[f64], n: usize, w: usize, tmp: &mut Vec<f64>, out: &mut Vec<f64>) {
+    const BLOCK: usize = 16;
+    let (rows_a, rows_b) = (a.len() / n, b.len() / n);
+    out.clear();
+    out.resize(rows_a * w, 0.0);
+    let mut t0 = 0;
+    while t0 < rows_a && t0 < rows_b {
+        let m = BLOCK.min(rows_a - t0);
+        let c1 = (t0 + m + w - 1).min(rows_b);
+        let cols = c1 - t0;
+        tmp.resize(m * cols, 0.0);
+        // SAFETY: a rows t0..t0+m and b rows t0..c1 are in bounds; tmp holds m × cols.
+        unsafe {
+            matrixmultiply::dgemm(
+                m,
+                n,
+                cols,
+                1.0,
+                a.as_ptr().add(t0 * n),
+                n as isize,
+                1,
+                b.as_ptr().add(t0 * n),
+                1,
+                n as isize,
+                0.0,
+                tmp.as_mut_ptr(),
+                cols as isize,
+                1,
+            );
+        }
+        for i in 0..m {
+            for d in 0..w.min(cols.saturating_sub(i)) {
+                out[(t0 + i) * w + d] = tmp[i * cols + i + d];
+            }
+        }
+        t0 += m;
+    }
+}
+
 /// Every preset at the bench's size against the default (exponential) preset.
 fn presets_report(default: &Setup) {
     student_t_report();
+    banded_report();
     println!("preset path / exponential default path at N = 1000, T = 120, L = 24 (one thread; target ≤ 1.3)");
     for (name, _) in lagfold::scenario::presets::ALL {
         let setup = common::setup_of(name, 1);

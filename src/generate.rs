@@ -7,9 +7,10 @@
 //! Two ways to apply the loadings ([`Kernel`]):
 //! - **convolution**: the start is exactly stationary because `f` is drawn
 //!   from `N(0, 1)` at date `−K` and run forward over every innovation that a
-//!   simulated return loads on; the `K`-tap convolution of news is a banded
-//!   Toeplitz matrix times the news matrix, done as blocked matrix products
-//!   (matrixmultiply), the fastest way found on these machines;
+//!   simulated return loads on; each return row sums its `K` taps of news in
+//!   tap order with one rounding per term (fused multiply-add), the same bits
+//!   on every CPU (a general matrix multiply, used before, picks its kernel
+//!   by CPU);
 //! - **recursion** (exponential curves): with `b_k = α·λ^{k−1} + β·ρ^{k−1}`,
 //!   the news part of the return over `(t, t+1]` is `α·X_{t+1} + β·f_t/sqrt(1−ρ²)`
 //!   with `X_{t+1} = λ·X_t + z_t`; the stationary start draws `(f_0, X_1)`
@@ -26,9 +27,6 @@ use crate::model::{Kernel, Model};
 use crate::rng::{PathRng, fill_normal};
 use crate::scenario::Tails;
 use crate::student_t::StudentTZiggurat;
-
-/// Rows of the Toeplitz block in one matrix product.
-const BLOCK: usize = 16;
 
 /// Everything needed to simulate paths of one scenario.
 #[derive(Debug, Clone)]
@@ -69,9 +67,8 @@ impl Noise {
 #[derive(Debug, Clone)]
 enum News {
     Convolution {
-        k: usize,
-        /// `BLOCK × (BLOCK + K − 1)` Toeplitz block: `toeplitz[i][i+m] = b_{K−m}`.
-        toeplitz: Vec<f64>,
+        /// `taps[m] = b_{K−m}` for `m < K`: the loading on news row `r + m`.
+        taps: Vec<f64>,
     },
     Recursion {
         alpha: f64,
@@ -133,6 +130,40 @@ fn recursion_step(r: &mut [f64], f_next: &mut [f64], x: &mut [f64], f: &[f64], z
 
 /// Assets per block of the fused state pass (a few SIMD registers wide).
 const LANES: usize = 8;
+
+/// `out` row `r` (rows of `n`) `= Σ_{m<K} taps[m]·news[r + m]`, summed in
+/// tap order with one rounding per term (`f64::mul_add`): the same bits on
+/// every CPU. An AVX2 and FMA build is chosen at run time; elsewhere the
+/// fused multiply-add may be done in software (slower, same bits).
+fn tap_sums(out: &mut [f64], news: &[f64], n: usize, taps: &[f64]) {
+    #[cfg(target_arch = "x86_64")]
+    if std::arch::is_x86_feature_detected!("avx2") && std::arch::is_x86_feature_detected!("fma") {
+        // SAFETY: the CPU supports AVX2 and FMA, checked just above.
+        return unsafe { tap_sums_fma(out, news, n, taps) };
+    }
+    tap_sums_any(out, news, n, taps);
+}
+
+/// [`tap_sums`] compiled for AVX2 and FMA.
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx2,fma")]
+unsafe fn tap_sums_fma(out: &mut [f64], news: &[f64], n: usize, taps: &[f64]) {
+    tap_sums_any(out, news, n, taps);
+}
+
+/// [`tap_sums`] for any CPU (inlined into each caller's features).
+#[inline(always)]
+fn tap_sums_any(out: &mut [f64], news: &[f64], n: usize, taps: &[f64]) {
+    for (r, row) in out.chunks_exact_mut(n).enumerate() {
+        row.fill(0.0);
+        for (m, &b) in taps.iter().enumerate() {
+            let z = &news[(r + m) * n..(r + m + 1) * n];
+            for (o, &x) in row.iter_mut().zip(z) {
+                *o = b.mul_add(x, *o);
+            }
+        }
+    }
+}
 
 /// One date of the exponential sum's states over all assets, in one pass:
 /// `r += Σ_i a_i·X_i`, then `X_i ← λ_i·X_i + z` (states row-major, `X_i` at
@@ -233,14 +264,7 @@ impl Generator {
             }
             Kernel::Convolution => {
                 let k = model.loadings_used();
-                let width = BLOCK + k - 1;
-                let mut toeplitz = vec![0.0; BLOCK * width];
-                for i in 0..BLOCK {
-                    for m in 0..k {
-                        toeplitz[i * width + i + m] = model.loadings[k - 1 - m];
-                    }
-                }
-                News::Convolution { k, toeplitz }
+                News::Convolution { taps: (0..k).map(|m| model.loadings[k - 1 - m]).collect() }
             }
         };
         Self { assets, dates, rho, ic_vol: model.ic_vol, psi: model.psi, idio_sd: model.idio_sd, noise, news }
@@ -249,10 +273,10 @@ impl Generator {
     /// Normal variates drawn per path (for the bench's bare-draw baseline).
     pub fn draws_per_path(&self) -> usize {
         let (n, t) = (self.assets, self.dates);
-        let news = match self.news {
-            News::Convolution { k, .. } => n + n * (t + k - 1),
+        let news = match &self.news {
+            News::Convolution { taps } => n + n * (t + taps.len() - 1),
             News::Recursion { .. } => 2 * n + n * (t - 1),
-            News::Exponentials { ref weights, ref taps, .. } => (weights.len() + 1 + taps.len()) * n + n * (t - 1),
+            News::Exponentials { weights, taps, .. } => (weights.len() + 1 + taps.len()) * n + n * (t - 1),
         };
         (t - 1) + news + n * (t - 1)
     }
@@ -276,8 +300,8 @@ impl Generator {
             *p = prev;
         }
         match &self.news {
-            News::Convolution { k, toeplitz } => {
-                self.convolve(rng, ws, *k, toeplitz);
+            News::Convolution { taps } => {
+                self.convolve(rng, ws, taps);
                 self.add_noise(rng, ws);
             }
             &News::Recursion { alpha, lambda, beta_f, init } => self.recurse(rng, ws, alpha, lambda, beta_f, init),
@@ -394,8 +418,8 @@ impl Generator {
     }
 
     /// Forecasts and the news part of returns by convolution.
-    fn convolve(&self, rng: &mut PathRng, ws: &mut Workspace, k: usize, toeplitz: &[f64]) {
-        let (n, t) = (self.assets, self.dates);
+    fn convolve(&self, rng: &mut PathRng, ws: &mut Workspace, taps: &[f64]) {
+        let (n, t, k) = (self.assets, self.dates, taps.len());
         let news_rows = t + k - 1; // innovation dates 1−K ..= T−1
         ws.news.resize(news_rows * n, 0.0);
         // Forecasts: f at date −K from N(0,1), then forward over all news rows.
@@ -414,34 +438,7 @@ impl Generator {
         }
 
         // News part of returns: row r = Σ_{m<K} b_{K−m}·news[r+m].
-        let width = BLOCK + k - 1;
-        let rows = t - 1;
-        let mut r0 = 0;
-        while r0 < rows {
-            let m = BLOCK.min(rows - r0);
-            // SAFETY: a is m × (m+K−1) inside `toeplitz` (row stride `width`);
-            // b is (m+K−1) × n starting at news row r0 (ends at row r0+m+K−2 ≤ T+K−2);
-            // c is m × n starting at return row r0 (ends at row r0+m−1 ≤ T−2).
-            unsafe {
-                matrixmultiply::dgemm(
-                    m,
-                    m + k - 1,
-                    n,
-                    1.0,
-                    toeplitz.as_ptr(),
-                    width as isize,
-                    1,
-                    ws.news.as_ptr().add(r0 * n),
-                    n as isize,
-                    1,
-                    0.0,
-                    ws.panel.returns.as_mut_ptr().add(r0 * n),
-                    n as isize,
-                    1,
-                );
-            }
-            r0 += m;
-        }
+        tap_sums(&mut ws.panel.returns[..(t - 1) * n], &ws.news, n, taps);
     }
 
     /// Adds the signal-factor part `φ·f` and idiosyncratic noise to the returns.
@@ -490,6 +487,35 @@ mod tests {
         }
     }
 
+    /// The convolution's sums: the AVX2 and FMA build against the portable
+    /// one bit for bit (vacuous on a CPU without them), and both against a
+    /// plain sum in tap order within rounding.
+    #[test]
+    fn tap_sums_are_the_same_bits_in_every_build() {
+        let (n, rows, k) = (37, 11, 9);
+        let mut rng = crate::rng::path_rng(6, 6);
+        let (mut news, mut taps) = (vec![0.0; (rows + k - 1) * n], vec![0.0; k]);
+        crate::rng::fill_normal(&mut rng, &mut news);
+        crate::rng::fill_normal(&mut rng, &mut taps);
+        let mut one = vec![f64::NAN; rows * n];
+        tap_sums_any(&mut one, &news, n, &taps);
+        for r in 0..rows {
+            for i in 0..n {
+                let plain: f64 = (0..k).map(|m| taps[m] * news[(r + m) * n + i]).sum();
+                let scale: f64 = (0..k).map(|m| (taps[m] * news[(r + m) * n + i]).abs()).sum();
+                assert!((one[r * n + i] - plain).abs() <= 2.0 * k as f64 * f64::EPSILON * scale);
+            }
+        }
+        #[cfg(target_arch = "x86_64")]
+        if std::arch::is_x86_feature_detected!("avx2") && std::arch::is_x86_feature_detected!("fma") {
+            let mut two = vec![f64::NAN; rows * n];
+            // SAFETY: the CPU supports AVX2 and FMA, checked above.
+            unsafe { tap_sums_fma(&mut two, &news, n, &taps) };
+            let bits = |v: &[f64]| v.iter().map(|x| x.to_bits()).collect::<Vec<_>>();
+            assert_eq!(bits(&one), bits(&two));
+        }
+    }
+
     /// The noise of a Student-t scenario against the t law itself (statrs):
     /// unit variance, and the share beyond each of a few points equal to the
     /// t distribution's tail, within `CHECK_SIGMAS` binomial standard errors.
@@ -504,7 +530,7 @@ mod tests {
                 psi: 0.0,
                 idio_sd: 1.0,
                 noise: Noise::new(Tails::StudentT { dof }),
-                news: News::Convolution { k: 1, toeplitz: Vec::new() },
+                news: News::Convolution { taps: vec![1.0] },
             };
             let mut e = vec![0.0; 400_000];
             g.draw_noise(&mut crate::rng::path_rng(3, dof as u64), &mut e);

@@ -26,7 +26,7 @@ pub(crate) mod sums;
 
 pub use panel::Panel;
 
-pub(crate) use banded::banded_products;
+pub use banded::banded_products;
 
 /// Per-date series for each lag (or horizon), one row of `dates` per lag.
 #[derive(Debug, Clone, Default)]
@@ -141,7 +141,6 @@ pub struct Measurement {
     rank_r: Vec<f64>,
     cross: Vec<f64>,
     gram: Vec<f64>,
-    tmp: Vec<f64>,
     order: Vec<usize>,
     /// Whether `fdm` and `cross` hold the last update's products (a complete
     /// panel with enough assets).
@@ -306,16 +305,16 @@ impl Measurement {
             demean_into(src, dst);
         }
         self.ret_scale = 1.0;
-        banded_products(&self.fdm, &self.rdm, n, l, &mut self.tmp, &mut self.cross);
-        banded_products(&self.rdm, &self.rdm, n, l, &mut self.tmp, &mut self.gram);
+        banded_products(&self.fdm, &self.rdm, n, l, &mut self.cross);
+        banded_products(&self.rdm, &self.rdm, n, l, &mut self.gram);
         // Returns in extreme units (the largest row's sum of squares overflows
         // or nears underflow): one common power of two, and the products again.
         let largest =
             self.gram.iter().step_by(l).fold(0.0f64, |m, g| if g.is_nan() { f64::INFINITY } else { m.max(*g) });
         if !usable(largest) {
             self.ret_scale = rescale(&mut self.rdm);
-            banded_products(&self.fdm, &self.rdm, n, l, &mut self.tmp, &mut self.cross);
-            banded_products(&self.rdm, &self.rdm, n, l, &mut self.tmp, &mut self.gram);
+            banded_products(&self.fdm, &self.rdm, n, l, &mut self.cross);
+            banded_products(&self.rdm, &self.rdm, n, l, &mut self.gram);
         }
         let scale = self.ret_scale;
         self.lagged.reset(l, t);
@@ -363,7 +362,7 @@ impl Measurement {
         ranked(&panel.returns, &mut self.rank_r, &mut order);
         self.order = order;
         let mut cross = Vec::new();
-        banded_products(&self.rank_f, &self.rank_r, n, l, &mut self.tmp, &mut cross);
+        banded_products(&self.rank_f, &self.rank_r, n, l, &mut cross);
         self.rank_lagged.reset(l, t);
         let r_ss: Vec<f64> = self.rank_r.chunks_exact(n).map(sums::sum_sq).collect();
         for date in 0..t - 1 {

@@ -30,7 +30,6 @@ pub struct BookBuilder {
     members: Vec<i8>,
     q_weights: Vec<f64>,
     q_cross: Vec<f64>,
-    tmp: Vec<f64>,
     order: Vec<usize>,
 }
 
@@ -109,7 +108,7 @@ impl BookBuilder {
         let n = panel.assets;
         self.quantile_weights(fdm, n, q);
         let m = (n / q) as f64;
-        banded_products(&self.q_weights, &panel.returns, n, l, &mut self.tmp, &mut self.q_cross);
+        banded_products(&self.q_weights, &panel.returns, n, l, &mut self.q_cross);
         let mut books = vec![BookSums::default(); l];
         for t in l..panel.dates - 1 {
             let mut g = 0.0;
