@@ -3,7 +3,9 @@
 //! interleaved run: core path (simulate, measure, three rules) / bare draws
 //! (target: at most 3); the whole path with the books against the same path
 //! in plain NumPy (`benches/numpy_path.py`, run in the same session; target:
-//! 5× faster); the portfolio layer / core path (target: at most 0.5);
+//! 5× faster); the portfolio layer / core path (target: at most 0.5); a
+//! Student-t draw against a normal one; the band of products a path measures
+//! by its fixed-order kernel against the former general matrix multiply;
 //! and every preset's core path at the same size against the exponential
 //! default's (target: at most 1.3), with how its generator applies the
 //! loadings and the largest IC error of an exponential-sum approximation.
