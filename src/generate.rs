@@ -154,12 +154,33 @@ unsafe fn tap_sums_fma(out: &mut [f64], news: &[f64], n: usize, taps: &[f64]) {
 /// [`tap_sums`] for any CPU (inlined into each caller's features).
 #[inline(always)]
 fn tap_sums_any(out: &mut [f64], news: &[f64], n: usize, taps: &[f64]) {
+    // Sixteen assets at a time, their sums held in registers across the taps
+    // rather than stored and reloaded once per tap. The order of each sum,
+    // and so its bits, is the same either way.
+    const SPAN: usize = 16;
     for (r, row) in out.chunks_exact_mut(n).enumerate() {
-        row.fill(0.0);
-        for (m, &b) in taps.iter().enumerate() {
-            let z = &news[(r + m) * n..(r + m + 1) * n];
-            for (o, &x) in row.iter_mut().zip(z) {
-                *o = b.mul_add(x, *o);
+        for (c, o) in row.chunks_mut(SPAN).enumerate() {
+            let i0 = r * n + c * SPAN;
+            let z = |m: usize| &news[i0 + m * n..i0 + m * n + o.len()];
+            if o.len() == SPAN {
+                // A whole span as fixed-size arrays, for the compiler to keep in registers.
+                let mut acc = [0.0; SPAN];
+                for (m, &b) in taps.iter().enumerate() {
+                    let x: &[f64; SPAN] = z(m).try_into().expect("a whole span");
+                    for (a, &x) in acc.iter_mut().zip(x) {
+                        *a = b.mul_add(x, *a);
+                    }
+                }
+                o.copy_from_slice(&acc);
+            } else {
+                let mut acc = [0.0; SPAN];
+                let acc = &mut acc[..o.len()];
+                for (m, &b) in taps.iter().enumerate() {
+                    for (a, &x) in acc.iter_mut().zip(z(m)) {
+                        *a = b.mul_add(x, *a);
+                    }
+                }
+                o.copy_from_slice(acc);
             }
         }
     }

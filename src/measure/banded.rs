@@ -2,18 +2,26 @@
 //! per-date IC needs one.
 //!
 //! Each product is summed in one fixed order on every CPU: four running sums,
-//! one per lane (entry `k` goes to lane `k mod 4`, in order of `k`), added as
-//! `(s₀ + s₁) + (s₂ + s₃)`, then the last `n mod 4` entries one by one. The
-//! code names no instruction set; a copy compiled for AVX2 is chosen at run
-//! time where the CPU has it, and since Rust never fuses a multiply and an add
-//! unasked, both copies give the same bits. (A general matrix multiply picks
-//! its kernel by CPU, fused multiply-add on some, so its sums differed in the
-//! last bits from one machine to another; and it also computed the products
-//! off the band.) The products are blocked two rows of `a` by four of `b`:
-//! each entry loaded serves several sums.
+//! one per lane (entry `k` goes to lane `k mod 4`, in order of `k`, each
+//! added by a fused multiply-add, `f64::mul_add`: one rounding), then
+//! `(s₀ + s₁) + (s₂ + s₃)`, then the last `n mod 4` entries one by one. Where
+//! the CPU has AVX2 and FMA, a build with a register kernel (`vfmadd` on four
+//! lanes, each rounded once, as `mul_add` is) is chosen at run time; elsewhere
+//! the portable build runs, with the fused multiply-add in software if need
+//! be (slower, same bits). A unit test compares the two builds bit for bit.
+//! (A general matrix multiply, used before, picks its kernel by CPU, fused
+//! on some and not on others, so its sums differed in the last bits from one
+//! machine to another; it also computed the products off the band.)
+//!
+//! The products are taken two rows of `a` by four of `b` at a time, so that
+//! each entry loaded serves several sums, over chunks of [`CHUNK`] entries
+//! of every row, so that the rows a pair of dates meets stay in the L1 cache.
 
 /// Lanes of running sums per product.
 const LANES: usize = 4;
+
+/// Rows of `b` taken at a time, against two rows of `a`.
+const COLS: usize = 4;
 
 /// `out[t·w + d] = ⟨a_t, b_{t+d}⟩` for `t < rows_a`, `d < w`, `t + d < rows_b`
 /// (zero elsewhere), where `a` and `b` are row-major with rows of `n` entries.
@@ -28,10 +36,10 @@ pub fn banded_products(a: &[f64], b: &[f64], n: usize, w: usize, out: &mut Vec<f
         // SAFETY: the CPU supports AVX2 and FMA, checked just above.
         return unsafe { banded_avx2(a, b, n, w, out) };
     }
-    banded_any(a, b, n, w, out, block::<2, LANES>);
+    banded_any(a, b, n, w, out, block::<2, COLS>);
 }
 
-/// [`banded_products`] compiled for AVX2.
+/// [`banded_products`] compiled for AVX2 and FMA, with the register kernel.
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx2,fma")]
 unsafe fn banded_avx2(a: &[f64], b: &[f64], n: usize, w: usize, out: &mut [f64]) {
@@ -48,7 +56,7 @@ unsafe fn banded_avx2(a: &[f64], b: &[f64], n: usize, w: usize, out: &mut [f64])
 /// The CPU must have AVX2 and FMA.
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx2,fma")]
-unsafe fn block_2x4_fma(x: [&[f64]; 2], y: [&[f64]; LANES], acc: &mut Sums<2, LANES>) {
+unsafe fn block_2x4_fma(x: [&[f64]; 2], y: [&[f64]; COLS], acc: &mut Sums<2, COLS>) {
     use std::arch::x86_64::{__m256d, _mm256_fmadd_pd, _mm256_loadu_pd, _mm256_storeu_pd};
     let len = x[0].len();
     assert!(
@@ -58,12 +66,13 @@ unsafe fn block_2x4_fma(x: [&[f64]; 2], y: [&[f64]; LANES], acc: &mut Sums<2, LA
     // SAFETY: every row holds `len` entries (asserted), and each load reads
     // LANES of them from a start below `len`; `acc`'s lanes are LANES apart.
     unsafe {
-        let mut s: [[__m256d; LANES]; 2] = [0, 1].map(|i| [0, 1, 2, 3].map(|c| _mm256_loadu_pd(acc[i][c].as_ptr())));
+        let mut s: [[__m256d; COLS]; 2] =
+            std::array::from_fn(|i| std::array::from_fn(|c| _mm256_loadu_pd(acc[i][c].as_ptr())));
         let mut k = 0;
         while k < len {
             let x0 = _mm256_loadu_pd(x[0].as_ptr().add(k));
             let x1 = _mm256_loadu_pd(x[1].as_ptr().add(k));
-            for c in 0..LANES {
+            for c in 0..COLS {
                 let yc = _mm256_loadu_pd(y[c].as_ptr().add(k));
                 s[0][c] = _mm256_fmadd_pd(x0, yc, s[0][c]);
                 s[1][c] = _mm256_fmadd_pd(x1, yc, s[1][c]);
@@ -71,7 +80,7 @@ unsafe fn block_2x4_fma(x: [&[f64]; 2], y: [&[f64]; LANES], acc: &mut Sums<2, LA
             k += LANES;
         }
         for i in 0..2 {
-            for c in 0..LANES {
+            for c in 0..COLS {
                 _mm256_storeu_pd(acc[i][c].as_mut_ptr(), s[i][c]);
             }
         }
@@ -94,7 +103,7 @@ fn banded_any(
     n: usize,
     w: usize,
     out: &mut [f64],
-    kernel: impl Fn([&[f64]; 2], [&[f64]; LANES], &mut Sums<2, LANES>),
+    kernel: impl Fn([&[f64]; 2], [&[f64]; COLS], &mut Sums<2, COLS>),
 ) {
     let (rows_a, rows_b) = (a.len() / n, b.len() / n);
     let whole = n - n % LANES;
@@ -112,8 +121,8 @@ fn banded_any(
         while t + 2 <= rows_a {
             let end = (t + w + 1).min(rows_b);
             let mut j = t;
-            while j + LANES <= end {
-                let mut s = [[[0.0; LANES]; LANES]; 2];
+            while j + COLS <= end {
+                let mut s = [[[0.0; LANES]; COLS]; 2];
                 for (i, line) in s.iter_mut().enumerate() {
                     for (c, sums) in line.iter_mut().enumerate() {
                         if let Some(d) = lag(t + i, j + c) {
@@ -121,7 +130,7 @@ fn banded_any(
                         }
                     }
                 }
-                kernel([row_a(t), row_a(t + 1)], [0, 1, 2, 3].map(|c| row_b(j + c)), &mut s);
+                kernel([row_a(t), row_a(t + 1)], std::array::from_fn(|c| row_b(j + c)), &mut s);
                 for (i, line) in s.iter().enumerate() {
                     for (c, sums) in line.iter().enumerate() {
                         if let Some(d) = lag(t + i, j + c) {
@@ -129,7 +138,7 @@ fn banded_any(
                         }
                     }
                 }
-                j += LANES;
+                j += COLS;
             }
             for j in j..end {
                 for t in [t, t + 1] {
@@ -255,7 +264,7 @@ mod tests {
             let (n, ra, w) = (1001, 37, 24);
             let (a, b) = (draws(ra * n, 3), draws(ra * n, 4));
             let (mut one, mut two) = (vec![0.0; ra * w], vec![0.0; ra * w]);
-            banded_any(&a, &b, n, w, &mut one, block::<2, LANES>);
+            banded_any(&a, &b, n, w, &mut one, block::<2, COLS>);
             // SAFETY: the CPU supports AVX2, checked above.
             unsafe { banded_avx2(&a, &b, n, w, &mut two) };
             let bits = |v: &[f64]| v.iter().map(|x| x.to_bits()).collect::<Vec<_>>();
