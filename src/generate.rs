@@ -161,27 +161,20 @@ fn tap_sums_any(out: &mut [f64], news: &[f64], n: usize, taps: &[f64]) {
     for (r, row) in out.chunks_exact_mut(n).enumerate() {
         for (c, o) in row.chunks_mut(SPAN).enumerate() {
             let i0 = r * n + c * SPAN;
-            let z = |m: usize| &news[i0 + m * n..i0 + m * n + o.len()];
-            if o.len() == SPAN {
-                // A whole span as fixed-size arrays, for the compiler to keep in registers.
-                let mut acc = [0.0; SPAN];
-                for (m, &b) in taps.iter().enumerate() {
-                    let x: &[f64; SPAN] = z(m).try_into().expect("a whole span");
-                    for (a, &x) in acc.iter_mut().zip(x) {
-                        *a = b.mul_add(x, *a);
-                    }
-                }
-                o.copy_from_slice(&acc);
-            } else {
-                let mut acc = [0.0; SPAN];
-                let acc = &mut acc[..o.len()];
-                for (m, &b) in taps.iter().enumerate() {
-                    for (a, &x) in acc.iter_mut().zip(z(m)) {
-                        *a = b.mul_add(x, *a);
-                    }
-                }
-                o.copy_from_slice(acc);
-            }
+            let mut acc = [0.0; SPAN];
+            let len = o.len(); // SPAN but for a row's last span
+            span_sums(&mut acc[..len], taps, |m| &news[i0 + m * n..i0 + m * n + len]);
+            o.copy_from_slice(&acc[..len]);
+        }
+    }
+}
+
+/// `acc[i] = Σ_m taps[m]·news(m)[i]` in tap order, one rounding per term.
+#[inline(always)]
+fn span_sums<'a>(acc: &mut [f64], taps: &[f64], news: impl Fn(usize) -> &'a [f64]) {
+    for (m, &b) in taps.iter().enumerate() {
+        for (a, &x) in acc.iter_mut().zip(news(m)) {
+            *a = b.mul_add(x, *a);
         }
     }
 }
