@@ -224,7 +224,7 @@ pub fn merge(parts: &[(String, Vec<u8>)], threads: usize, progress: &dyn Progres
             {
                 return Err(Error::Input(format!("{}: the tallies do not fit the sweep's points", parts[0].0)));
             }
-            blocks_fit(&parts, |i| points[i].scenario.paths)?;
+            blocks_fit(&parts, |i| points.get(i).map_or(0, |p| p.scenario.paths))?;
             progress.begin("reference", points.len());
             let mut rows = Vec::with_capacity(points.len());
             for (i, (p, tally)) in points.iter().zip(&tallies).enumerate() {
