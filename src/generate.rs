@@ -517,6 +517,8 @@ mod tests {
             for i in 0..n {
                 let plain: f64 = (0..k).map(|m| taps[m] * news[(r + m) * n + i]).sum();
                 let scale: f64 = (0..k).map(|m| (taps[m] * news[(r + m) * n + i]).abs()).sum();
+                // Each order errs by at most γ_k·Σ|b·x| ≈ k·ε·Σ|b·x| (Higham, 2002,
+                // §3.1); the two orders differ by at most twice that.
                 assert!((one[r * n + i] - plain).abs() <= 2.0 * k as f64 * f64::EPSILON * scale);
             }
         }

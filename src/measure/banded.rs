@@ -249,6 +249,8 @@ mod tests {
                     assert_eq!(got.to_bits(), reference(x, y).to_bits(), "n {n} t {t} d {d}");
                     let plain: f64 = x.iter().zip(y).map(|(p, q)| p * q).sum();
                     let scale: f64 = x.iter().zip(y).map(|(p, q)| (p * q).abs()).sum();
+                    // Two orders of one sum each err by at most γ_n·Σ|x·y| ≈ n·ε·Σ|x·y|
+                    // (Higham, 2002, §3.1); twice that for both, twice again as slack.
                     assert!((got - plain).abs() <= 4.0 * n as f64 * f64::EPSILON * scale, "n {n} t {t} d {d}");
                 }
             }
